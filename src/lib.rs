@@ -1,0 +1,5 @@
+//! Shaftline: propulsion motor trade studies for electric aircraft.
+//! The engine is pure; storage, plots, exports and the web are consumers of its results.
+
+/// The pure computational core: study format, models, mission integration, scoring.
+pub mod engine;
