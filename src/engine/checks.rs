@@ -1,0 +1,285 @@
+//! Feasibility checks (engine.md §10): every (check, segment, OEI) outcome with its value,
+//! limit and relative margin; violations; the binding constraint.
+
+use super::closure::Closure;
+use super::fly::{Flight, SegStats};
+use super::mission::MissionGrid;
+use super::motor::MotorModel;
+use super::results::Violation;
+
+/// Check names in the tie order of §10.
+pub const CHECKS: [&str; 11] = [
+    "torque",
+    "speed",
+    "winding_temperature",
+    "magnet_temperature",
+    "overload_duration",
+    "envelope_diameter",
+    "envelope_length",
+    "mass_closure",
+    "max_takeoff_mass",
+    "energy_margin",
+    "geometry",
+];
+
+/// Checks that a larger motor eases (size-to-mission's first group, §9).
+pub fn eased_by_size(check: &str) -> bool {
+    matches!(
+        check,
+        "torque" | "winding_temperature" | "magnet_temperature" | "geometry"
+    )
+}
+
+/// One evaluated check.
+#[derive(Debug, Clone, PartialEq)]
+pub struct Outcome {
+    pub check: usize,
+    pub segment: Option<usize>,
+    pub oei: bool,
+    pub value: f64,
+    pub limit: f64,
+    pub message: String,
+}
+
+impl Outcome {
+    pub fn name(&self) -> &'static str {
+        CHECKS[self.check]
+    }
+    /// (limit − value)/|limit|; negative when violated.
+    pub fn relative_margin(&self) -> f64 {
+        (self.limit - self.value) / self.limit.abs().max(1e-12)
+    }
+    pub fn failed(&self) -> bool {
+        self.value > self.limit
+    }
+    fn order(&self) -> (bool, usize, usize) {
+        (self.oei, self.segment.unwrap_or(usize::MAX), self.check)
+    }
+    /// "torque, Takeoff, OEI"
+    pub fn label(&self, grid: &MissionGrid) -> String {
+        let mut s = self.name().to_string();
+        if let Some(i) = self.segment {
+            s.push_str(", ");
+            s.push_str(&grid.segments[i].name);
+        }
+        if self.oei {
+            s.push_str(", OEI");
+        }
+        s
+    }
+}
+
+fn check_index(name: &str) -> usize {
+    CHECKS
+        .iter()
+        .position(|c| *c == name)
+        .unwrap_or(CHECKS.len() - 1)
+}
+
+fn where_(grid: &MissionGrid, seg: usize, oei: bool) -> String {
+    let name = &grid.segments[seg].name;
+    if oei {
+        format!("in {name} (one motor out)")
+    } else {
+        format!("in {name}")
+    }
+}
+
+/// Mission checks of one segment row.
+fn segment_outcomes(
+    model: &MotorModel,
+    grid: &MissionGrid,
+    seg: usize,
+    oei: bool,
+    s: &SegStats,
+    out: &mut Vec<Outcome>,
+) {
+    let at = where_(grid, seg, oei);
+    let mut push = |check: &str, value: f64, limit: f64, message: String| {
+        out.push(Outcome {
+            check: check_index(check),
+            segment: Some(seg),
+            oei,
+            value,
+            limit,
+            message,
+        });
+    };
+    push(
+        "torque",
+        s.max_torque_nm,
+        s.capability_nm,
+        format!(
+            "torque demand reaches {:.1} N·m {at}; capability {:.1} N·m",
+            s.max_torque_nm, s.capability_nm
+        ),
+    );
+    let rpm = s.omega * 30.0 / std::f64::consts::PI;
+    let max_rpm = model.max_speed_rad_s * 30.0 / std::f64::consts::PI;
+    push(
+        "speed",
+        rpm,
+        max_rpm,
+        format!("motor speed {rpm:.0} rpm {at}; maximum {max_rpm:.0} rpm"),
+    );
+    push(
+        "winding_temperature",
+        s.peak_winding_c,
+        model.winding_limit_c,
+        format!(
+            "winding temperature reaches {:.1} °C {at}; limit {:.1} °C (insulation class less hot-spot allowance)",
+            s.peak_winding_c, model.winding_limit_c
+        ),
+    );
+    if let Some(lim) = model.magnet_limit_c {
+        push(
+            "magnet_temperature",
+            s.peak_stator_c,
+            lim,
+            format!(
+                "magnet temperature reaches {:.1} °C {at}; limit {lim:.1} °C",
+                s.peak_stator_c
+            ),
+        );
+    }
+    if let Some((_, permitted)) = model.overload {
+        push(
+            "overload_duration",
+            s.max_overload_s,
+            permitted,
+            format!(
+                "torque stays above the continuous rating for {:.0} s {at}; the datasheet permits {permitted:.0} s",
+                s.max_overload_s
+            ),
+        );
+    }
+}
+
+/// Candidate-level inputs to the checks.
+pub struct Limits {
+    pub max_diameter_m: Option<f64>,
+    pub max_length_m: Option<f64>,
+    pub mtom_kg: f64,
+    /// Usable battery energy (fixed battery), J.
+    pub usable_energy_j: Option<f64>,
+}
+
+/// Every check outcome of a flown candidate, in tie order.
+pub fn outcomes(
+    model: &MotorModel,
+    grid: &MissionGrid,
+    flight: &Flight,
+    closure: &Closure,
+    lim: &Limits,
+) -> Vec<Outcome> {
+    let mut out = Vec::new();
+    for (i, s) in flight.nominal.iter().enumerate() {
+        segment_outcomes(model, grid, i, false, s, &mut out);
+    }
+    for (i, s) in &flight.oei {
+        segment_outcomes(model, grid, *i, true, s, &mut out);
+    }
+    let mut push = |check: &str, value: f64, limit: f64, message: String| {
+        out.push(Outcome {
+            check: check_index(check),
+            segment: None,
+            oei: false,
+            value,
+            limit,
+            message,
+        });
+    };
+    if let (Some(v), Some(l)) = (model.envelope_diameter_m, lim.max_diameter_m) {
+        push(
+            "envelope_diameter",
+            v,
+            l,
+            format!("envelope diameter {v:.3} m; installation allows {l:.3} m"),
+        );
+    }
+    if let (Some(v), Some(l)) = (model.envelope_length_m, lim.max_length_m) {
+        push(
+            "envelope_length",
+            v,
+            l,
+            format!("envelope length {v:.3} m; installation allows {l:.3} m"),
+        );
+    }
+    if !closure.converged {
+        push(
+            "mass_closure",
+            closure.parts.sum_kg,
+            lim.mtom_kg,
+            format!(
+                "the takeoff mass does not close below 3 × the maximum takeoff mass; at {:.1} kg the parts sum to {:.1} kg",
+                lim.mtom_kg, closure.parts.sum_kg
+            ),
+        );
+    } else {
+        let m = closure.takeoff_mass_kg;
+        push(
+            "max_takeoff_mass",
+            m,
+            lim.mtom_kg,
+            format!("takeoff mass {m:.1} kg; maximum {:.1} kg", lim.mtom_kg),
+        );
+    }
+    if let Some(usable) = lim.usable_energy_j {
+        let need = flight.battery_j / 3.6e6;
+        let have = usable / 3.6e6;
+        push(
+            "energy_margin",
+            need,
+            have,
+            format!("the mission needs {need:.2} kWh; the battery holds {have:.2} kWh usable"),
+        );
+    }
+    out.sort_by_key(|o| o.order());
+    out
+}
+
+/// A geometry failure as an outcome (size-to-mission: a scale at which the motor cannot be built).
+pub fn geometry_outcome(message: String) -> Outcome {
+    Outcome {
+        check: check_index("geometry"),
+        segment: None,
+        oei: false,
+        value: 1.0,
+        limit: 0.0,
+        message,
+    }
+}
+
+/// The failed outcomes as violations.
+pub fn violations(outcomes: &[Outcome], grid: &MissionGrid) -> Vec<Violation> {
+    outcomes
+        .iter()
+        .filter(|o| o.failed())
+        .map(|o| Violation {
+            check: o.name().to_string(),
+            segment: o.segment.map(|i| grid.segments[i].name.clone()),
+            oei: o.oei,
+            value: o.value,
+            limit: o.limit,
+            message: o.message.clone(),
+        })
+        .collect()
+}
+
+/// The binding outcome: a failed mass closure; otherwise the smallest relative margin
+/// (for an infeasible candidate, the largest relative exceedance); ties in tie order.
+pub fn binding(outcomes: &[Outcome], filter: impl Fn(&Outcome) -> bool) -> Option<&Outcome> {
+    if let Some(o) = outcomes
+        .iter()
+        .find(|o| o.name() == "mass_closure" && o.failed())
+    {
+        return Some(o);
+    }
+    let mut best: Option<&Outcome> = None;
+    for o in outcomes.iter().filter(|o| filter(o)) {
+        if best.is_none_or(|b| o.relative_margin() < b.relative_margin()) {
+            best = Some(o);
+        }
+    }
+    best
+}

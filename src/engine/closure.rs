@@ -1,0 +1,149 @@
+//! Mass closure (engine.md §8): the smallest takeoff mass at which the sum of the parts,
+//! after flying the mission at that mass, equals the mass flown.
+
+use super::fly::{Flight, Prepared};
+use super::mission::MissionGrid;
+use super::study::{BatteryMode, Study};
+
+/// Aircraft-level constants of the closure.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct AircraftConst {
+    pub airframe_kg: f64,
+    pub payload_kg: f64,
+    pub mtom_kg: f64,
+    pub motors: f64,
+    /// Usable energy per kg of pack: e·u·f_eol, J/kg.
+    pub usable_j_per_kg: f64,
+    /// Fixed battery mass, or `None` when sized.
+    pub fixed_battery_kg: Option<f64>,
+    /// Inverter specific power, W/kg.
+    pub inverter_w_per_kg: f64,
+    /// Gearbox specific torque, N·m/kg (`None` for direct drive).
+    pub gearbox_nm_per_kg: Option<f64>,
+}
+
+impl AircraftConst {
+    pub fn new(study: &Study, geared: bool) -> AircraftConst {
+        let a = &study.aircraft;
+        let b = &a.battery;
+        let e = b.specific_energy_wh_per_kg * 3600.0;
+        let u = b.usable_fraction.unwrap_or(0.9) * b.end_of_life_fraction.unwrap_or(0.8);
+        AircraftConst {
+            airframe_kg: a.airframe_mass_kg,
+            payload_kg: a.payload_kg,
+            mtom_kg: a.max_takeoff_mass_kg,
+            motors: a.motor_count as f64,
+            usable_j_per_kg: e * u,
+            fixed_battery_kg: match b.mode {
+                BatteryMode::Fixed => b.mass_kg,
+                BatteryMode::Sized => None,
+            },
+            inverter_w_per_kg: a.inverter_specific_power_kw_per_kg.unwrap_or(20.0) * 1000.0,
+            gearbox_nm_per_kg: geared.then(|| a.gearbox_specific_torque_nm_per_kg.unwrap_or(60.0)),
+        }
+    }
+}
+
+/// The masses that follow from one flight.
+#[derive(Debug, Clone, Copy, PartialEq, Default)]
+pub struct Parts {
+    pub sum_kg: f64,
+    pub battery_kg: f64,
+    /// Per motor.
+    pub inverter_kg: f64,
+    pub gearbox_kg: f64,
+}
+
+pub fn parts(ac: &AircraftConst, motor_kg: f64, f: &Flight) -> Parts {
+    let inverter_kg = f.max_elec_per_motor_w / ac.inverter_w_per_kg;
+    let gearbox_kg = ac
+        .gearbox_nm_per_kg
+        .map_or(0.0, |k| f.max_prop_torque_nm / k);
+    let battery_kg = ac
+        .fixed_battery_kg
+        .unwrap_or(f.battery_j / ac.usable_j_per_kg);
+    Parts {
+        sum_kg: ac.airframe_kg
+            + ac.payload_kg
+            + ac.motors * (motor_kg + inverter_kg + gearbox_kg)
+            + battery_kg,
+        battery_kg,
+        inverter_kg,
+        gearbox_kg,
+    }
+}
+
+/// The outcome of the closure; the caller's flight buffer then holds the flight at the
+/// closing mass (or at the maximum takeoff mass when it does not close).
+#[derive(Debug, Clone, Copy, PartialEq, Default)]
+pub struct Closure {
+    pub converged: bool,
+    pub takeoff_mass_kg: f64,
+    pub parts: Parts,
+    pub iterations: usize,
+}
+
+const TOLERANCE_KG: f64 = 0.01;
+const MAX_ITERATIONS: usize = 200;
+
+/// Finds the smallest root of F(m) = m from below: fixed-point steps (which rise
+/// monotonically to that root because F increases with m), accelerated by secant steps
+/// that are kept only when they land where F(m) ≥ m, i.e. still below the root.
+pub fn close(
+    grid: &MissionGrid,
+    prep: &Prepared,
+    ac: &AircraftConst,
+    flight: &mut Flight,
+) -> Closure {
+    let motor = prep.model.mass_kg;
+    let mut m =
+        ac.airframe_kg + ac.payload_kg + ac.motors * motor + ac.fixed_battery_kg.unwrap_or(0.0);
+    let mut prev: Option<(f64, f64)> = None;
+    let mut evals = 0;
+    let ceiling = 3.0 * ac.mtom_kg;
+    while evals < MAX_ITERATIONS {
+        prep.fly(grid, m, flight, None);
+        evals += 1;
+        let p = parts(ac, motor, flight);
+        let g = p.sum_kg - m;
+        if !p.sum_kg.is_finite() || p.sum_kg > ceiling {
+            break;
+        }
+        if g.abs() < TOLERANCE_KG {
+            return Closure {
+                converged: true,
+                takeoff_mass_kg: p.sum_kg,
+                parts: p,
+                iterations: evals,
+            };
+        }
+        let next = match prev {
+            Some((m0, g0)) if g >= 0.0 && g0 > g && m > m0 => {
+                let secant = m + g * (m - m0) / (g0 - g);
+                if secant.is_finite() && secant > p.sum_kg && secant <= ceiling {
+                    secant
+                } else {
+                    p.sum_kg
+                }
+            }
+            _ => p.sum_kg,
+        };
+        if g < 0.0 {
+            // A secant step went past the root: step back to the last point below it.
+            let (m0, g0) = prev.unwrap_or((m, 0.0));
+            prev = None;
+            m = m0 + g0;
+            continue;
+        }
+        prev = Some((m, g));
+        m = next;
+    }
+    prep.fly(grid, ac.mtom_kg, flight, None);
+    let p = parts(ac, motor, flight);
+    Closure {
+        converged: false,
+        takeoff_mass_kg: ac.mtom_kg,
+        parts: p,
+        iterations: evals,
+    }
+}

@@ -1,0 +1,287 @@
+//! Scoring one candidate: build its motor model (or size it), close the mass, check it,
+//! and assemble its result row.
+
+use super::assume::Assumptions;
+use super::checks::{self, Limits, Outcome};
+use super::closure::{self, AircraftConst, Closure};
+use super::datasheet;
+use super::fly::{Drive, Flight, Prepared};
+use super::mission::MissionGrid;
+use super::motor::{MotorModel, Sink};
+use super::sized::SizedContext;
+use super::sizing::{self, SizingParams};
+use super::study::{AxialVariant, Candidate, Source, Study, Winding};
+use super::{axial, radial, report, search};
+
+const RPM: f64 = std::f64::consts::PI / 30.0;
+
+/// What every candidate of a study shares.
+pub struct StudyContext<'a> {
+    pub study: &'a Study,
+    pub grid: MissionGrid,
+}
+
+impl<'a> StudyContext<'a> {
+    pub fn new(study: &'a Study) -> Self {
+        StudyContext {
+            study,
+            grid: MissionGrid::new(study),
+        }
+    }
+}
+
+/// How a sizing candidate scales: the scale is D (radial, L = χ·D) or R_o (axial, fixed λ).
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub enum Shape {
+    Radial { aspect: f64 },
+    RadialFixed { length: f64 },
+    Axial { variant: AxialVariant, lambda: f64 },
+}
+
+/// A sizing candidate ready to be built at any scale.
+pub struct Scalable {
+    pub params: SizingParams,
+    pub shape: Shape,
+    pub ctx: SizedContext,
+}
+
+impl Scalable {
+    pub fn build(&self, scale: f64) -> Result<MotorModel, String> {
+        match self.shape {
+            Shape::Radial { aspect } => {
+                radial::build(&self.params, scale, aspect * scale, &self.ctx)
+            }
+            Shape::RadialFixed { length } => radial::build(&self.params, scale, length, &self.ctx),
+            Shape::Axial { variant, lambda } => Ok(axial::build(
+                &self.params,
+                variant,
+                scale,
+                lambda,
+                &self.ctx,
+            )),
+        }
+    }
+    /// Scale at which the rated torque equals `t`.
+    pub fn scale_for_torque(&self, t: f64) -> f64 {
+        match self.shape {
+            Shape::Radial { aspect } => radial::bore_for_torque(&self.params, t, aspect),
+            Shape::RadialFixed { length } => {
+                (2.0 * t / (self.params.shear_stress() * std::f64::consts::PI * length)).sqrt()
+            }
+            Shape::Axial { lambda, .. } => axial::radius_for_torque(&self.params, t, lambda),
+        }
+    }
+}
+
+/// Everything needed to fly and check a model of one candidate.
+pub struct Evaluator<'a> {
+    pub ctx: &'a StudyContext<'a>,
+    pub drive: Drive,
+    pub aircraft: AircraftConst,
+    pub limits: Limits,
+}
+
+/// One flown and checked model.
+pub struct Run {
+    pub closure: Closure,
+    pub flight: Flight,
+    pub outcomes: Vec<Outcome>,
+}
+
+impl<'a> Evaluator<'a> {
+    pub fn run(&self, model: &MotorModel) -> Run {
+        let prep = Prepared::new(model, self.drive, &self.ctx.grid);
+        let mut flight = Flight::default();
+        let closure = closure::close(&self.ctx.grid, &prep, &self.aircraft, &mut flight);
+        let mut limits = Limits {
+            ..self.limits_copy()
+        };
+        limits.usable_energy_j = self
+            .aircraft
+            .fixed_battery_kg
+            .map(|b| b * self.aircraft.usable_j_per_kg);
+        let outcomes = checks::outcomes(model, &self.ctx.grid, &flight, &closure, &limits);
+        Run {
+            closure,
+            flight,
+            outcomes,
+        }
+    }
+
+    fn limits_copy(&self) -> Limits {
+        Limits {
+            max_diameter_m: self.limits.max_diameter_m,
+            max_length_m: self.limits.max_length_m,
+            mtom_kg: self.limits.mtom_kg,
+            usable_energy_j: self.limits.usable_energy_j,
+        }
+    }
+}
+
+/// Scores one candidate of the study (without the study-level Pareto and trade score).
+pub fn evaluate(ctx: &StudyContext, cand: &Candidate) -> super::results::CandidateResult {
+    let mut a = Assumptions::default();
+    let ev = evaluator(ctx, cand, &mut a);
+    match &cand.source {
+        Source::Datasheet(d) => {
+            let model = datasheet::build(d, &mut a);
+            let run = ev.run(&model);
+            report::assemble(ctx, cand, &model, &run, None, a)
+        }
+        Source::RadialSizing(_) | Source::AxialSizing(_) => {
+            match scalable(ctx, cand, &ev, &mut a) {
+                Ok((sc, fixed)) => search::evaluate_sized(&ev, cand, &sc, fixed, a),
+                Err(msg) => report::unbuildable(ctx, cand, msg, a),
+            }
+        }
+    }
+}
+
+fn evaluator<'a>(
+    ctx: &'a StudyContext<'a>,
+    cand: &Candidate,
+    a: &mut Assumptions,
+) -> Evaluator<'a> {
+    let s = ctx.study;
+    let ac = &s.aircraft;
+    let ratio = cand
+        .drive
+        .as_ref()
+        .and_then(|d| d.gear_ratio)
+        .unwrap_or(1.0);
+    let geared = ratio != 1.0;
+    let gear_efficiency = if geared {
+        let stages = cand.drive.as_ref().and_then(|d| d.gear_stages).unwrap_or(1);
+        let eta = a.or(ac.gearbox_stage_efficiency, 0.98, || {
+            "gearbox 98 % per stage (default)".into()
+        });
+        if ac.gearbox_specific_torque_nm_per_kg.is_none() {
+            a.note("gearbox 60 N·m/kg of propeller torque (default)");
+        }
+        eta.powi(stages as i32)
+    } else {
+        1.0
+    };
+    let inverter_efficiency = a.or(ac.inverter_efficiency, 0.98, || {
+        "inverter efficiency 98 % (default)".into()
+    });
+    if ac.inverter_specific_power_kw_per_kg.is_none() {
+        a.note("inverter 20 kW/kg (default)");
+    }
+    let b = &ac.battery;
+    let battery_efficiency = a.or(b.discharge_efficiency, 0.97, || {
+        "battery discharge efficiency 97 % (default)".into()
+    });
+    if b.usable_fraction.is_none() {
+        a.note("battery usable fraction 90 % (default)");
+    }
+    if b.end_of_life_fraction.is_none() {
+        a.note("battery end-of-life fraction 80 % (default)");
+    }
+    oei_notes(s, a);
+    let installation = s.installation.as_ref();
+    Evaluator {
+        ctx,
+        drive: Drive {
+            gear_ratio: ratio,
+            gear_efficiency,
+            inverter_efficiency,
+            battery_efficiency,
+            preflight_c: s.integration.as_ref().and_then(|i| i.preflight_temp_c),
+        },
+        aircraft: AircraftConst::new(s, geared),
+        limits: Limits {
+            max_diameter_m: installation.and_then(|i| i.max_diameter_m),
+            max_length_m: installation.and_then(|i| i.max_length_m),
+            mtom_kg: ac.max_takeoff_mass_kg,
+            usable_energy_j: None,
+        },
+    }
+}
+
+fn oei_notes(s: &Study, a: &mut Assumptions) {
+    let flagged = s.segments.iter().any(|g| g.is_oei());
+    if flagged && s.aircraft.motor_count < 2 {
+        a.note("segments flagged oei ignored: the aircraft has one motor");
+    } else if s.segments.iter().any(|g| {
+        g.is_oei()
+            && g.oei_cd0_increment.is_none()
+            && matches!(g.power, super::study::PowerRule::Steady { .. })
+    }) {
+        a.note("one-motor-out drag increment ΔC_D0 0.002 (default)");
+    }
+}
+
+/// The sizing candidate as a scalable design, and its fixed scale in geometry mode.
+fn scalable(
+    ctx: &StudyContext,
+    cand: &Candidate,
+    ev: &Evaluator,
+    a: &mut Assumptions,
+) -> Result<(Scalable, Option<f64>), String> {
+    let (common, default_winding) = match &cand.source {
+        Source::RadialSizing(r) => (&r.common, Winding::Distributed),
+        Source::AxialSizing(x) => (&x.common, Winding::Concentrated),
+        Source::Datasheet(_) => unreachable!("datasheet candidates are not scalable"),
+    };
+    let params = sizing::resolve(common, default_winding, a)?;
+    let highest = ctx
+        .grid
+        .segments
+        .iter()
+        .map(|g| g.prop_omega * ev.drive.gear_ratio)
+        .fold(0.0, f64::max);
+    let base = match params.user_base_speed_rpm {
+        Some(rpm) => rpm * RPM,
+        None => {
+            a.note("base speed 1.1 × the highest motor speed of the mission (default)");
+            1.1 * highest
+        }
+    };
+    let sink = if params.cooling.is_liquid() {
+        let t = a.or(ctx.study.aircraft.coolant_inlet_temp_c, 50.0, || {
+            "coolant inlet 50 °C (default)".into()
+        });
+        Sink::Liquid(t)
+    } else {
+        Sink::Air
+    };
+    a.note("magnet temperature taken as the stator node");
+    let sized_ctx = SizedContext {
+        base_speed_rad_s: base,
+        dc_bus_v: ctx.study.aircraft.dc_bus_voltage_v.unwrap_or(400.0),
+        sink,
+    };
+    let (shape, fixed) = match &cand.source {
+        Source::RadialSizing(r) => match (r.bore_diameter_m, r.active_length_m, r.aspect_ratio) {
+            (Some(d), Some(l), _) => (Shape::RadialFixed { length: l }, Some(d)),
+            (_, _, aspect) => (
+                Shape::Radial {
+                    aspect: aspect.unwrap_or(1.0),
+                },
+                None,
+            ),
+        },
+        Source::AxialSizing(x) => {
+            let lambda = a.or(x.inner_outer_ratio, 0.6, || {
+                "inner/outer ratio 0.6 (default)".into()
+            });
+            (
+                Shape::Axial {
+                    variant: x.variant,
+                    lambda,
+                },
+                x.outer_radius_m,
+            )
+        }
+        Source::Datasheet(_) => unreachable!("datasheet candidates are not scalable"),
+    };
+    Ok((
+        Scalable {
+            params,
+            shape,
+            ctx: sized_ctx,
+        },
+        fixed,
+    ))
+}
