@@ -5,3 +5,16 @@
 pub mod demo;
 /// The pure computational core: study format, models, mission integration, scoring.
 pub mod engine;
+
+/// Command-line subcommands of the binary.
+pub mod cli;
+/// Typed settings from flags and environment.
+pub mod config;
+/// Password hashing and random tokens.
+pub mod secrets;
+/// First start: the admin account and the demo study.
+pub mod setup;
+/// SQLite storage of accounts and studies.
+pub mod storage;
+/// The web application: pages, forms and the JSON API.
+pub mod web;

@@ -1,1 +1,21 @@
-fn main() {}
+//! The `shaftline` binary: parse the command line, start tracing, dispatch.
+
+use clap::Parser;
+use shaftline::cli::{self, Cli, Commands};
+
+#[tokio::main]
+async fn main() -> anyhow::Result<()> {
+    let cli = Cli::parse();
+    tracing_subscriber::fmt()
+        .with_env_filter(
+            tracing_subscriber::EnvFilter::try_from_default_env()
+                .unwrap_or_else(|_| "shaftline=info,tower_http=warn".into()),
+        )
+        .with_writer(std::io::stderr)
+        .init();
+    match cli.command {
+        Commands::Serve(args) => shaftline::web::serve(args).await,
+        Commands::User { db, action } => cli::run_user(&db, action).await,
+        Commands::Token { db, action } => cli::run_token(&db, action).await,
+    }
+}

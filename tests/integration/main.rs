@@ -1,1 +1,10 @@
-fn main() {}
+//! The integration test binary: HTTP through `TestApp`, the real binary, a browser.
+
+mod accounts;
+mod api;
+mod browser;
+mod cli;
+mod helpers;
+mod rows;
+mod storage;
+mod studies;

@@ -1,0 +1,223 @@
+//! Users, browser sessions and API tokens. Only hashes of secrets reach this module.
+
+use super::{Db, Result, StorageError, now_text, now_unix};
+
+/// Access levels; each includes everything the ones before it may do.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, PartialOrd, Ord, serde::Serialize)]
+#[serde(rename_all = "lowercase")]
+pub enum Role {
+    Viewer,
+    Editor,
+    Admin,
+}
+
+impl Role {
+    pub const ALL: [Role; 3] = [Role::Viewer, Role::Editor, Role::Admin];
+
+    pub fn as_str(self) -> &'static str {
+        match self {
+            Role::Viewer => "viewer",
+            Role::Editor => "editor",
+            Role::Admin => "admin",
+        }
+    }
+}
+
+impl std::str::FromStr for Role {
+    type Err = String;
+    fn from_str(s: &str) -> std::result::Result<Self, String> {
+        match s {
+            "viewer" => Ok(Role::Viewer),
+            "editor" => Ok(Role::Editor),
+            "admin" => Ok(Role::Admin),
+            other => Err(format!(
+                "role must be viewer, editor or admin (got '{other}')"
+            )),
+        }
+    }
+}
+
+impl std::fmt::Display for Role {
+    fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
+        f.write_str(self.as_str())
+    }
+}
+
+/// A stored account.
+#[derive(Debug, Clone, sqlx::FromRow)]
+pub struct UserRow {
+    pub id: i64,
+    pub username: String,
+    pub password_hash: String,
+    pub role: String,
+    pub created_at: String,
+}
+
+impl UserRow {
+    /// The role; an unknown stored value (impossible under the CHECK) reads as viewer.
+    pub fn role(&self) -> Role {
+        self.role.parse().unwrap_or(Role::Viewer)
+    }
+}
+
+/// A signed-in browser: the session's user and its anti-forgery token.
+#[derive(Debug, Clone, sqlx::FromRow)]
+pub struct SessionUser {
+    pub user_id: i64,
+    pub username: String,
+    pub role: String,
+    pub csrf_token: String,
+}
+
+pub async fn count_users(db: &Db) -> Result<i64> {
+    let (n,): (i64,) = sqlx::query_as("SELECT COUNT(*) FROM user")
+        .fetch_one(db)
+        .await?;
+    Ok(n)
+}
+
+pub async fn insert_user(db: &Db, username: &str, password_hash: &str, role: Role) -> Result<i64> {
+    let now = now_text();
+    let res = sqlx::query(
+        "INSERT INTO user (username, password_hash, role, created_at, updated_at)
+         VALUES (?, ?, ?, ?, ?)",
+    )
+    .bind(username)
+    .bind(password_hash)
+    .bind(role.as_str())
+    .bind(&now)
+    .bind(&now)
+    .execute(db)
+    .await;
+    match res {
+        Ok(done) => Ok(done.last_insert_rowid()),
+        Err(sqlx::Error::Database(e)) if e.is_unique_violation() => Err(StorageError::Invalid(
+            format!("username: '{username}' is already taken"),
+        )),
+        Err(e) => Err(e.into()),
+    }
+}
+
+pub async fn find_user(db: &Db, username: &str) -> Result<Option<UserRow>> {
+    Ok(sqlx::query_as(
+        "SELECT id, username, password_hash, role, created_at FROM user WHERE username = ?",
+    )
+    .bind(username)
+    .fetch_optional(db)
+    .await?)
+}
+
+pub async fn list_users(db: &Db) -> Result<Vec<UserRow>> {
+    Ok(sqlx::query_as(
+        "SELECT id, username, password_hash, role, created_at FROM user ORDER BY username",
+    )
+    .fetch_all(db)
+    .await?)
+}
+
+async fn update_user_column(db: &Db, username: &str, sql: &'static str, value: &str) -> Result<()> {
+    let done = sqlx::query(sql)
+        .bind(value)
+        .bind(now_text())
+        .bind(username)
+        .execute(db)
+        .await?;
+    if done.rows_affected() == 0 {
+        return Err(StorageError::NotFound { what: "user" });
+    }
+    Ok(())
+}
+
+/// Replaces a password hash and signs the user out everywhere.
+pub async fn set_password_hash(db: &Db, username: &str, password_hash: &str) -> Result<()> {
+    let sql: &'static str =
+        "UPDATE user SET password_hash = ?, updated_at = ?, revision = revision + 1
+               WHERE username = ?";
+    update_user_column(db, username, sql, password_hash).await?;
+    sqlx::query("DELETE FROM session WHERE user_id = (SELECT id FROM user WHERE username = ?)")
+        .bind(username)
+        .execute(db)
+        .await?;
+    Ok(())
+}
+
+pub async fn set_role(db: &Db, username: &str, role: Role) -> Result<()> {
+    let sql = "UPDATE user SET role = ?, updated_at = ?, revision = revision + 1
+               WHERE username = ?";
+    update_user_column(db, username, sql, role.as_str()).await
+}
+
+pub async fn insert_session(
+    db: &Db,
+    token_hash: &str,
+    user_id: i64,
+    csrf_token: &str,
+    lifetime_s: i64,
+) -> Result<()> {
+    sqlx::query(
+        "INSERT INTO session (token_hash, user_id, csrf_token, created_at, expires_at)
+         VALUES (?, ?, ?, ?, ?)",
+    )
+    .bind(token_hash)
+    .bind(user_id)
+    .bind(csrf_token)
+    .bind(now_text())
+    .bind(now_unix() + lifetime_s)
+    .execute(db)
+    .await?;
+    Ok(())
+}
+
+/// The user of a live (unexpired) session.
+pub async fn find_session(db: &Db, token_hash: &str) -> Result<Option<SessionUser>> {
+    Ok(sqlx::query_as(
+        "SELECT u.id AS user_id, u.username, u.role, s.csrf_token
+         FROM session s JOIN user u ON u.id = s.user_id
+         WHERE s.token_hash = ? AND s.expires_at > ?",
+    )
+    .bind(token_hash)
+    .bind(now_unix())
+    .fetch_optional(db)
+    .await?)
+}
+
+pub async fn delete_session(db: &Db, token_hash: &str) -> Result<()> {
+    sqlx::query("DELETE FROM session WHERE token_hash = ?")
+        .bind(token_hash)
+        .execute(db)
+        .await?;
+    Ok(())
+}
+
+/// Removes expired sessions; returns how many were removed.
+pub async fn delete_expired_sessions(db: &Db) -> Result<u64> {
+    let done = sqlx::query("DELETE FROM session WHERE expires_at <= ?")
+        .bind(now_unix())
+        .execute(db)
+        .await?;
+    Ok(done.rows_affected())
+}
+
+pub async fn insert_api_token(db: &Db, token_hash: &str, username: &str) -> Result<()> {
+    let user = find_user(db, username)
+        .await?
+        .ok_or(StorageError::NotFound { what: "user" })?;
+    sqlx::query("INSERT INTO api_token (token_hash, user_id, created_at) VALUES (?, ?, ?)")
+        .bind(token_hash)
+        .bind(user.id)
+        .bind(now_text())
+        .execute(db)
+        .await?;
+    Ok(())
+}
+
+/// The owner of an API token, read fresh on every request (no caching of accounts).
+pub async fn find_token_user(db: &Db, token_hash: &str) -> Result<Option<UserRow>> {
+    Ok(sqlx::query_as(
+        "SELECT u.id, u.username, u.password_hash, u.role, u.created_at
+         FROM api_token t JOIN user u ON u.id = t.user_id WHERE t.token_hash = ?",
+    )
+    .bind(token_hash)
+    .fetch_optional(db)
+    .await?)
+}

@@ -1,0 +1,161 @@
+//! Segment and candidate rows of a study: insert, update, reorder, delete. Every write
+//! checks the row's revision and bumps the study's, in one transaction.
+
+use super::studies::{Item, ItemRow, bump_study, get_item};
+use super::{Db, Result, StorageError, now_text};
+use serde_json::Value;
+use sqlx::AssertSqlSafe;
+
+/// Which neighbour a row swaps places with.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum MoveDirection {
+    Up,
+    Down,
+}
+
+/// Appends a row at the end of the study's list. Returns the new row's id.
+pub async fn insert_item(
+    db: &Db,
+    item: Item,
+    study_id: i64,
+    body: &Value,
+    by: &str,
+) -> Result<i64> {
+    let mut tx = db.begin().await?;
+    let sql = format!(
+        "INSERT INTO {t} (study_id, position, body, updated_at, updated_by)
+         VALUES (?, (SELECT COALESCE(MAX(position) + 1, 0) FROM {t} WHERE study_id = ?), ?, ?, ?)",
+        t = item.table()
+    );
+    bump_study(&mut tx, study_id, by).await?;
+    let id = sqlx::query(AssertSqlSafe(sql.clone()))
+        .bind(study_id)
+        .bind(study_id)
+        .bind(body.to_string())
+        .bind(now_text())
+        .bind(by)
+        .execute(&mut *tx)
+        .await?
+        .last_insert_rowid();
+    tx.commit().await?;
+    Ok(id)
+}
+
+async fn item_conflict(db: &Db, item: Item, study_id: i64, id: i64) -> StorageError {
+    match get_item(db, item, study_id, id).await {
+        Ok(row) => StorageError::Conflict {
+            by: row.updated_by,
+            at: row.updated_at,
+        },
+        Err(e) => e,
+    }
+}
+
+/// Replaces a row's body if `revision` is still its revision. Returns the new revision.
+pub async fn update_item(
+    db: &Db,
+    item: Item,
+    study_id: i64,
+    id: i64,
+    revision: i64,
+    body: &Value,
+    by: &str,
+) -> Result<i64> {
+    let mut tx = db.begin().await?;
+    let sql = format!(
+        "UPDATE {} SET body = ?, revision = revision + 1, updated_at = ?, updated_by = ?
+         WHERE study_id = ? AND id = ? AND revision = ? RETURNING revision",
+        item.table()
+    );
+    let row: Option<(i64,)> = sqlx::query_as(AssertSqlSafe(sql.clone()))
+        .bind(body.to_string())
+        .bind(now_text())
+        .bind(by)
+        .bind(study_id)
+        .bind(id)
+        .bind(revision)
+        .fetch_optional(&mut *tx)
+        .await?;
+    let Some((rev,)) = row else {
+        drop(tx);
+        return Err(item_conflict(db, item, study_id, id).await);
+    };
+    bump_study(&mut tx, study_id, by).await?;
+    tx.commit().await?;
+    Ok(rev)
+}
+
+/// Deletes a row if `revision` is still its revision.
+pub async fn delete_item(
+    db: &Db,
+    item: Item,
+    study_id: i64,
+    id: i64,
+    revision: i64,
+    by: &str,
+) -> Result<()> {
+    let mut tx = db.begin().await?;
+    let sql = format!(
+        "DELETE FROM {} WHERE study_id = ? AND id = ? AND revision = ?",
+        item.table()
+    );
+    let done = sqlx::query(AssertSqlSafe(sql.clone()))
+        .bind(study_id)
+        .bind(id)
+        .bind(revision)
+        .execute(&mut *tx)
+        .await?;
+    if done.rows_affected() == 0 {
+        drop(tx);
+        return Err(item_conflict(db, item, study_id, id).await);
+    }
+    bump_study(&mut tx, study_id, by).await?;
+    tx.commit().await?;
+    Ok(())
+}
+
+/// Swaps a row with its neighbour above or below; at either end nothing changes.
+pub async fn move_item(
+    db: &Db,
+    item: Item,
+    study_id: i64,
+    id: i64,
+    dir: MoveDirection,
+    by: &str,
+) -> Result<()> {
+    let mut tx = db.begin().await?;
+    let list_sql = format!(
+        "SELECT id, position, body, revision, updated_at, updated_by FROM {}
+         WHERE study_id = ? ORDER BY position, id",
+        item.table()
+    );
+    let rows: Vec<ItemRow> = sqlx::query_as(AssertSqlSafe(list_sql.clone()))
+        .bind(study_id)
+        .fetch_all(&mut *tx)
+        .await?;
+    let at = rows
+        .iter()
+        .position(|r| r.id == id)
+        .ok_or(StorageError::NotFound { what: item.what() })?;
+    let other = match dir {
+        MoveDirection::Up => at.checked_sub(1),
+        MoveDirection::Down => Some(at + 1).filter(|&i| i < rows.len()),
+    };
+    let Some(other) = other else {
+        return Ok(());
+    };
+    // Rewrite positions densely so rows with equal positions also reorder cleanly.
+    let mut order: Vec<i64> = rows.iter().map(|r| r.id).collect();
+    order.swap(at, other);
+    let sql = format!("UPDATE {} SET position = ? WHERE id = ?", item.table());
+    for (pos, row_id) in order.iter().enumerate() {
+        sqlx::query(AssertSqlSafe(sql.clone()))
+            .bind(pos as i64)
+            .bind(row_id)
+            .execute(&mut *tx)
+            .await?;
+    }
+    bump_study(&mut tx, study_id, by).await?;
+    tx.commit().await?;
+    Ok(())
+}

@@ -1,0 +1,118 @@
+//! The web application: shared state, the router assembled from one router per
+//! feature, security layers, and `serve` with graceful shutdown.
+
+pub mod auth;
+pub mod error;
+pub mod fields;
+pub mod forms;
+pub mod html;
+pub mod limiter;
+pub mod routes;
+pub mod scoring;
+pub mod validate;
+
+use std::io::Write;
+use std::sync::Arc;
+
+use anyhow::Context;
+use axum::Router;
+use axum::extract::DefaultBodyLimit;
+use axum::http::{HeaderName, HeaderValue, header};
+use axum::middleware::from_fn_with_state;
+use tower_http::set_header::SetResponseHeaderLayer;
+
+use crate::config::{ServeArgs, WebConfig};
+use crate::storage::{self, Db};
+
+/// What every handler can reach.
+#[derive(Clone)]
+pub struct AppState {
+    pub db: Db,
+    pub config: Arc<WebConfig>,
+    pub login_limiter: Arc<limiter::LoginLimiter>,
+    pub results: Arc<scoring::ResultsCache>,
+}
+
+impl AppState {
+    pub fn new(db: Db, config: WebConfig) -> Self {
+        AppState {
+            db,
+            config: Arc::new(config),
+            login_limiter: Arc::default(),
+            results: Arc::default(),
+        }
+    }
+}
+
+const CSP: &str = "default-src 'self'; script-src 'self'; style-src 'self'; img-src 'self' data:; \
+                   frame-ancestors 'none'; form-action 'self'; base-uri 'none'";
+
+fn header_layer(name: HeaderName, value: &'static str) -> SetResponseHeaderLayer<HeaderValue> {
+    SetResponseHeaderLayer::if_not_present(name, HeaderValue::from_static(value))
+}
+
+/// The whole application, ready for `axum::serve` or `oneshot` in tests.
+pub fn app(state: AppState) -> Router {
+    Router::new()
+        .merge(routes::system::router())
+        .merge(routes::accounts::router())
+        .merge(routes::studies::router())
+        .merge(routes::study::router())
+        .merge(routes::items::router())
+        .merge(routes::api::router())
+        .layer(from_fn_with_state(state.clone(), auth::csrf_guard))
+        .layer(DefaultBodyLimit::max(auth::MAX_FORM_BYTES))
+        .layer(header_layer(header::CONTENT_SECURITY_POLICY, CSP))
+        .layer(header_layer(header::X_CONTENT_TYPE_OPTIONS, "nosniff"))
+        .layer(header_layer(header::X_FRAME_OPTIONS, "DENY"))
+        .layer(header_layer(header::REFERRER_POLICY, "same-origin"))
+        .with_state(state)
+}
+
+/// `shaftline serve`: open the database, seed it on first start, listen until
+/// SIGINT/SIGTERM, let in-flight requests finish, then close the pool.
+pub async fn serve(args: ServeArgs) -> anyhow::Result<()> {
+    let db = storage::open_file(args.db.path_str()?)
+        .await
+        .context("opening the database")?;
+    if let Some(password) = crate::setup::first_start(&db)
+        .await
+        .context("first-start setup")?
+    {
+        let mut out = std::io::stdout().lock();
+        writeln!(out, "admin password: {password}")?;
+        out.flush()?;
+    }
+    let listener = tokio::net::TcpListener::bind(args.addr)
+        .await
+        .with_context(|| format!("listening on {}", args.addr))?;
+    let addr = listener.local_addr()?;
+    println!("Shaftline listening on http://{addr}/");
+    std::io::stdout().flush()?;
+    let state = AppState::new(db.clone(), WebConfig::from(&args));
+    axum::serve(listener, app(state))
+        .with_graceful_shutdown(shutdown_signal())
+        .await
+        .context("serving")?;
+    db.close().await;
+    tracing::info!("stopped cleanly");
+    Ok(())
+}
+
+async fn shutdown_signal() {
+    let ctrl_c = async {
+        let _ = tokio::signal::ctrl_c().await;
+    };
+    #[cfg(unix)]
+    let term = async {
+        match tokio::signal::unix::signal(tokio::signal::unix::SignalKind::terminate()) {
+            Ok(mut s) => {
+                s.recv().await;
+            }
+            Err(_) => std::future::pending::<()>().await,
+        }
+    };
+    #[cfg(not(unix))]
+    let term = std::future::pending::<()>();
+    tokio::select! { _ = ctrl_c => {}, _ = term => {} }
+}

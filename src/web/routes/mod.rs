@@ -1,0 +1,10 @@
+//! One router per feature; `web::app` merges them.
+
+pub mod accounts;
+pub mod api;
+pub mod candidate;
+pub mod common;
+pub mod items;
+pub mod studies;
+pub mod study;
+pub mod system;
