@@ -10,6 +10,7 @@ pub mod datasheet;
 pub mod error;
 pub mod evaluate;
 pub mod fly;
+pub mod inspect;
 pub mod materials;
 pub mod mission;
 pub mod motor;
