@@ -30,6 +30,7 @@ pub mod sizing;
 pub mod steel;
 pub mod study;
 pub mod thermal;
+mod validate;
 
 pub use score::{objectives as study_objectives, score_study};
 
