@@ -2,7 +2,7 @@
 //! Huang et al. 1999; Gieras, Wang & Kamper, *Axial Flux Permanent Magnet Brushless Machines*).
 
 use super::materials::{CU_DENSITY, NDFEB_DENSITY};
-use super::motor::MotorModel;
+use super::motor::{Geo, MotorModel};
 use super::sized::{SizedContext, SizedParts, annular_inertia, annulus, into_model};
 use super::sizing::SizingParams;
 use super::steel::STEEL_DENSITY_KG_M3 as RHO_FE;
@@ -114,10 +114,7 @@ pub fn build(
         parts.put(k, v);
     }
     if yoke {
-        parts.geometry.insert(
-            "note".into(),
-            "single-sided: unbalanced axial pull on the bearings".into(),
-        );
+        parts.geometry.push(("note", Geo::Text("single-sided: unbalanced axial pull on the bearings")));
     }
     into_model(p, parts, ctx)
 }

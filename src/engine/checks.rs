@@ -24,10 +24,7 @@ pub const CHECKS: [&str; 11] = [
 
 /// Checks that a larger motor eases (size-to-mission's first group, §9).
 pub fn eased_by_size(check: &str) -> bool {
-    matches!(
-        check,
-        "torque" | "winding_temperature" | "magnet_temperature" | "geometry"
-    )
+    matches!(check, "torque" | "winding_temperature" | "magnet_temperature" | "geometry")
 }
 
 /// One evaluated check.
@@ -38,7 +35,9 @@ pub struct Outcome {
     pub oei: bool,
     pub value: f64,
     pub limit: f64,
-    pub message: String,
+    /// A fixed message (geometry failures); the others are written by [`describe`] only
+    /// when they are shown.
+    pub message: Option<String>,
 }
 
 impl Outcome {
@@ -70,92 +69,61 @@ impl Outcome {
 }
 
 fn check_index(name: &str) -> usize {
-    CHECKS
-        .iter()
-        .position(|c| *c == name)
-        .unwrap_or(CHECKS.len() - 1)
+    CHECKS.iter().position(|c| *c == name).unwrap_or(CHECKS.len() - 1)
 }
 
 fn where_(grid: &MissionGrid, seg: usize, oei: bool) -> String {
     let name = &grid.segments[seg].name;
-    if oei {
-        format!("in {name} (one motor out)")
-    } else {
-        format!("in {name}")
-    }
+    if oei { format!("in {name} (one motor out)") } else { format!("in {name}") }
 }
 
 /// Mission checks of one segment row.
-fn segment_outcomes(
-    model: &MotorModel,
-    grid: &MissionGrid,
-    seg: usize,
-    oei: bool,
-    s: &SegStats,
-    out: &mut Vec<Outcome>,
-) {
-    let at = where_(grid, seg, oei);
-    let mut push = |check: &str, value: f64, limit: f64, message: String| {
-        out.push(Outcome {
-            check: check_index(check),
-            segment: Some(seg),
-            oei,
-            value,
-            limit,
-            message,
-        });
+fn segment_outcomes(model: &MotorModel, seg: usize, oei: bool, s: &SegStats, out: &mut Vec<Outcome>) {
+    let mut push = |check: &str, value: f64, limit: f64| {
+        out.push(Outcome { check: check_index(check), segment: Some(seg), oei, value, limit, message: None });
     };
-    push(
-        "torque",
-        s.max_torque_nm,
-        s.capability_nm,
-        format!(
-            "torque demand reaches {:.1} N·m {at}; capability {:.1} N·m",
-            s.max_torque_nm, s.capability_nm
-        ),
-    );
-    let rpm = s.omega * 30.0 / std::f64::consts::PI;
-    let max_rpm = model.max_speed_rad_s * 30.0 / std::f64::consts::PI;
-    push(
-        "speed",
-        rpm,
-        max_rpm,
-        format!("motor speed {rpm:.0} rpm {at}; maximum {max_rpm:.0} rpm"),
-    );
-    push(
-        "winding_temperature",
-        s.peak_winding_c,
-        model.winding_limit_c,
-        format!(
-            "winding temperature reaches {:.1} °C {at}; limit {:.1} °C (insulation class less hot-spot allowance)",
-            s.peak_winding_c, model.winding_limit_c
-        ),
-    );
+    push("torque", s.max_torque_nm, s.capability_nm);
+    let to_rpm = 30.0 / std::f64::consts::PI;
+    push("speed", s.omega * to_rpm, model.max_speed_rad_s * to_rpm);
+    push("winding_temperature", s.peak_winding_c, model.winding_limit_c);
     if let Some(lim) = model.magnet_limit_c {
-        push(
-            "magnet_temperature",
-            s.peak_stator_c,
-            lim,
-            format!(
-                "magnet temperature reaches {:.1} °C {at}; limit {lim:.1} °C",
-                s.peak_stator_c
-            ),
-        );
+        push("magnet_temperature", s.peak_stator_c, lim);
     }
     if let Some((_, permitted)) = model.overload {
-        push(
-            "overload_duration",
-            s.max_overload_s,
-            permitted,
-            format!(
-                "torque stays above the continuous rating for {:.0} s {at}; the datasheet permits {permitted:.0} s",
-                s.max_overload_s
-            ),
-        );
+        push("overload_duration", s.max_overload_s, permitted);
+    }
+}
+
+/// The message of an outcome.
+pub fn describe(o: &Outcome, grid: &MissionGrid) -> String {
+    if let Some(m) = &o.message {
+        return m.clone();
+    }
+    let at = o.segment.map(|i| where_(grid, i, o.oei)).unwrap_or_default();
+    let (v, l) = (o.value, o.limit);
+    match o.name() {
+        "torque" => format!("torque demand reaches {v:.1} N·m {at}; capability {l:.1} N·m"),
+        "speed" => format!("motor speed {v:.0} rpm {at}; maximum {l:.0} rpm"),
+        "winding_temperature" => format!(
+            "winding temperature reaches {v:.1} °C {at}; limit {l:.1} °C (insulation class less hot-spot allowance)"
+        ),
+        "magnet_temperature" => format!("magnet temperature reaches {v:.1} °C {at}; limit {l:.1} °C"),
+        "overload_duration" => {
+            format!("torque stays above the continuous rating for {v:.0} s {at}; the datasheet permits {l:.0} s")
+        }
+        "envelope_diameter" => format!("envelope diameter {v:.3} m; installation allows {l:.3} m"),
+        "envelope_length" => format!("envelope length {v:.3} m; installation allows {l:.3} m"),
+        "mass_closure" => format!(
+            "the takeoff mass does not close below 3 × the maximum takeoff mass; at {l:.1} kg the parts sum to {v:.1} kg"
+        ),
+        "max_takeoff_mass" => format!("takeoff mass {v:.1} kg; maximum {l:.1} kg"),
+        "energy_margin" => format!("the mission needs {v:.2} kWh; the battery holds {l:.2} kWh usable"),
+        _ => "the motor cannot be built at this size".to_string(),
     }
 }
 
 /// Candidate-level inputs to the checks.
+#[derive(Debug, Clone, Copy, PartialEq)]
 pub struct Limits {
     pub max_diameter_m: Option<f64>,
     pub max_length_m: Option<f64>,
@@ -165,74 +133,30 @@ pub struct Limits {
 }
 
 /// Every check outcome of a flown candidate, in tie order.
-pub fn outcomes(
-    model: &MotorModel,
-    grid: &MissionGrid,
-    flight: &Flight,
-    closure: &Closure,
-    lim: &Limits,
-) -> Vec<Outcome> {
-    let mut out = Vec::new();
+pub fn outcomes(model: &MotorModel, flight: &Flight, closure: &Closure, lim: &Limits) -> Vec<Outcome> {
+    let mut out = Vec::with_capacity(5 * (flight.nominal.len() + flight.oei.len()) + 4);
     for (i, s) in flight.nominal.iter().enumerate() {
-        segment_outcomes(model, grid, i, false, s, &mut out);
+        segment_outcomes(model, i, false, s, &mut out);
     }
     for (i, s) in &flight.oei {
-        segment_outcomes(model, grid, *i, true, s, &mut out);
+        segment_outcomes(model, *i, true, s, &mut out);
     }
-    let mut push = |check: &str, value: f64, limit: f64, message: String| {
-        out.push(Outcome {
-            check: check_index(check),
-            segment: None,
-            oei: false,
-            value,
-            limit,
-            message,
-        });
+    let mut push = |check: &str, value: f64, limit: f64| {
+        out.push(Outcome { check: check_index(check), segment: None, oei: false, value, limit, message: None });
     };
     if let (Some(v), Some(l)) = (model.envelope_diameter_m, lim.max_diameter_m) {
-        push(
-            "envelope_diameter",
-            v,
-            l,
-            format!("envelope diameter {v:.3} m; installation allows {l:.3} m"),
-        );
+        push("envelope_diameter", v, l);
     }
     if let (Some(v), Some(l)) = (model.envelope_length_m, lim.max_length_m) {
-        push(
-            "envelope_length",
-            v,
-            l,
-            format!("envelope length {v:.3} m; installation allows {l:.3} m"),
-        );
+        push("envelope_length", v, l);
     }
-    if !closure.converged {
-        push(
-            "mass_closure",
-            closure.parts.sum_kg,
-            lim.mtom_kg,
-            format!(
-                "the takeoff mass does not close below 3 × the maximum takeoff mass; at {:.1} kg the parts sum to {:.1} kg",
-                lim.mtom_kg, closure.parts.sum_kg
-            ),
-        );
+    if closure.converged {
+        push("max_takeoff_mass", closure.takeoff_mass_kg, lim.mtom_kg);
     } else {
-        let m = closure.takeoff_mass_kg;
-        push(
-            "max_takeoff_mass",
-            m,
-            lim.mtom_kg,
-            format!("takeoff mass {m:.1} kg; maximum {:.1} kg", lim.mtom_kg),
-        );
+        push("mass_closure", closure.parts.sum_kg, lim.mtom_kg);
     }
     if let Some(usable) = lim.usable_energy_j {
-        let need = flight.battery_j / 3.6e6;
-        let have = usable / 3.6e6;
-        push(
-            "energy_margin",
-            need,
-            have,
-            format!("the mission needs {need:.2} kWh; the battery holds {have:.2} kWh usable"),
-        );
+        push("energy_margin", flight.battery_j / 3.6e6, usable / 3.6e6);
     }
     out.sort_by_key(|o| o.order());
     out
@@ -240,14 +164,7 @@ pub fn outcomes(
 
 /// A geometry failure as an outcome (size-to-mission: a scale at which the motor cannot be built).
 pub fn geometry_outcome(message: String) -> Outcome {
-    Outcome {
-        check: check_index("geometry"),
-        segment: None,
-        oei: false,
-        value: 1.0,
-        limit: 0.0,
-        message,
-    }
+    Outcome { check: check_index("geometry"), segment: None, oei: false, value: 1.0, limit: 0.0, message: Some(message) }
 }
 
 /// The failed outcomes as violations.
@@ -261,7 +178,7 @@ pub fn violations(outcomes: &[Outcome], grid: &MissionGrid) -> Vec<Violation> {
             oei: o.oei,
             value: o.value,
             limit: o.limit,
-            message: o.message.clone(),
+            message: describe(o, grid),
         })
         .collect()
 }
@@ -269,10 +186,7 @@ pub fn violations(outcomes: &[Outcome], grid: &MissionGrid) -> Vec<Violation> {
 /// The binding outcome: a failed mass closure; otherwise the smallest relative margin
 /// (for an infeasible candidate, the largest relative exceedance); ties in tie order.
 pub fn binding(outcomes: &[Outcome], filter: impl Fn(&Outcome) -> bool) -> Option<&Outcome> {
-    if let Some(o) = outcomes
-        .iter()
-        .find(|o| o.name() == "mass_closure" && o.failed())
-    {
+    if let Some(o) = outcomes.iter().find(|o| o.name() == "mass_closure" && o.failed()) {
         return Some(o);
     }
     let mut best: Option<&Outcome> = None;

@@ -4,11 +4,10 @@
 
 use super::assume::Assumptions;
 use super::materials::insulation_class_temp_c;
-use super::motor::{CurrentModel, LossModel, MotorModel, Sink, ThermalModel, resistance_ratio};
+use super::motor::{Geo, CurrentModel, LossModel, MotorModel, Sink, ThermalModel, resistance_ratio};
 use super::nnls::nnls;
 use super::study::{DatasheetSource, InsulationClass, Topology};
 use super::thermal::OneNode;
-use serde_json::{Map, Value, json};
 
 const RPM: f64 = std::f64::consts::PI / 30.0;
 
@@ -106,35 +105,22 @@ pub fn build(d: &DatasheetSource, a: &mut Assumptions) -> MotorModel {
         Some(kt) => CurrentModel::TorqueConstant(kt),
         None => CurrentModel::None,
     };
-    let mut geometry = Map::new();
-    geometry.insert(
-        "topology".into(),
-        json!(match d.topology {
-            Topology::Radial => "radial",
-            Topology::Axial => "axial",
-        }),
-    );
-    geometry.insert(
-        "loss_model".into(),
-        json!(if fit.rms_error.is_some() {
-            "nnls_fit"
-        } else {
-            "split"
-        }),
-    );
-    geometry.insert("loss_k_copper_w_per_nm2".into(), json!(fit.k_c));
-    geometry.insert("loss_k_linear_w_s".into(), json!(fit.k_h));
-    geometry.insert("loss_k_quadratic_w_s2".into(), json!(fit.k_e));
-    geometry.insert("loss_k_constant_w".into(), json!(fit.k_0));
-    geometry.insert(
-        "loss_fit_rms_error".into(),
-        fit.rms_error.map_or(Value::Null, |e| json!(e)),
-    );
-    geometry.insert("thermal_resistance_k_per_w".into(), json!(resistance));
-    geometry.insert(
-        "thermal_capacitance_j_per_k".into(),
-        json!(tau / resistance),
-    );
+    let topology = match d.topology {
+        Topology::Radial => "radial",
+        Topology::Axial => "axial",
+    };
+    let method = if fit.rms_error.is_some() { "nnls_fit" } else { "split" };
+    let geometry = vec![
+        ("topology", Geo::Text(topology)),
+        ("loss_model", Geo::Text(method)),
+        ("loss_k_copper_w_per_nm2", Geo::Num(fit.k_c)),
+        ("loss_k_linear_w_s", Geo::Num(fit.k_h)),
+        ("loss_k_quadratic_w_s2", Geo::Num(fit.k_e)),
+        ("loss_k_constant_w", Geo::Num(fit.k_0)),
+        ("loss_fit_rms_error", fit.rms_error.map_or(Geo::Null, Geo::Num)),
+        ("thermal_resistance_k_per_w", Geo::Num(resistance)),
+        ("thermal_capacitance_j_per_k", Geo::Num(tau / resistance)),
+    ];
     MotorModel {
         rated_torque_nm: t_rated,
         peak_torque_nm: t_peak,

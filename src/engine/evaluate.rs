@@ -94,28 +94,8 @@ impl<'a> Evaluator<'a> {
         let prep = Prepared::new(model, self.drive, &self.ctx.grid);
         let mut flight = Flight::default();
         let closure = closure::close(&self.ctx.grid, &prep, &self.aircraft, &mut flight);
-        let mut limits = Limits {
-            ..self.limits_copy()
-        };
-        limits.usable_energy_j = self
-            .aircraft
-            .fixed_battery_kg
-            .map(|b| b * self.aircraft.usable_j_per_kg);
-        let outcomes = checks::outcomes(model, &self.ctx.grid, &flight, &closure, &limits);
-        Run {
-            closure,
-            flight,
-            outcomes,
-        }
-    }
-
-    fn limits_copy(&self) -> Limits {
-        Limits {
-            max_diameter_m: self.limits.max_diameter_m,
-            max_length_m: self.limits.max_length_m,
-            mtom_kg: self.limits.mtom_kg,
-            usable_energy_j: self.limits.usable_energy_j,
-        }
+        let outcomes = checks::outcomes(model, &flight, &closure, &self.limits);
+        Run { closure, flight, outcomes }
     }
 }
 
@@ -195,6 +175,7 @@ fn evaluator<'a>(
     }
     oei_notes(s, a);
     let installation = s.installation.as_ref();
+    let aircraft = AircraftConst::new(s, geared);
     Evaluator {
         ctx,
         drive: Drive {
@@ -203,13 +184,14 @@ fn evaluator<'a>(
             inverter_efficiency,
             battery_efficiency,
             preflight_c: s.integration.as_ref().and_then(|i| i.preflight_temp_c),
+            loss_scale: 1.0,
         },
-        aircraft: AircraftConst::new(s, geared),
+        aircraft,
         limits: Limits {
             max_diameter_m: installation.and_then(|i| i.max_diameter_m),
             max_length_m: installation.and_then(|i| i.max_length_m),
             mtom_kg: ac.max_takeoff_mass_kg,
-            usable_energy_j: None,
+            usable_energy_j: b.mass_kg.map(|m| m * aircraft.usable_j_per_kg),
         },
     }
 }
@@ -299,4 +281,14 @@ fn scalable(
         },
         fixed,
     ))
+}
+
+/// Scores a candidate with a given motor model (a design frozen at its nominal size), its
+/// losses scaled by `loss_scale`; used by the robustness samples.
+pub fn evaluate_frozen(ctx: &StudyContext, cand: &Candidate, model: &MotorModel, loss_scale: f64) -> CandidateResult {
+    let mut a = Assumptions::default();
+    let mut ev = evaluator(ctx, cand, &mut a);
+    ev.drive.loss_scale = loss_scale;
+    let run = ev.run(model);
+    report::assemble(ctx, cand, model, &run, None, a)
 }

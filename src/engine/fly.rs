@@ -15,6 +15,8 @@ pub struct Drive {
     pub battery_efficiency: f64,
     /// Initial temperature of every node, °C (preflight, or `None`: the first step's sink).
     pub preflight_c: Option<f64>,
+    /// Multiplier on every motor loss (1 nominally; robustness samples vary it).
+    pub loss_scale: f64,
 }
 
 /// Per-segment constants of one design.
@@ -246,6 +248,8 @@ impl<'a> Prepared<'a> {
                     )
                 }
             };
+            let ls = self.drive.loss_scale;
+            let (cu, fe, mech) = (cu * ls, fe * ls, mech * ls);
             let loss = cu + fe + mech;
             let input = pm + loss;
             let elec = input * inv_eta_inv;

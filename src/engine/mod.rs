@@ -23,12 +23,14 @@ pub mod radial;
 pub mod reader;
 mod report;
 pub mod results;
-mod score;
+pub mod robust;
+pub mod score;
 mod search;
 pub mod sized;
 pub mod sizing;
 pub mod steel;
 pub mod study;
+pub mod sweep;
 pub mod thermal;
 mod validate;
 

@@ -3,7 +3,6 @@
 
 use super::materials::{CU_ALPHA_PER_K, copper_resistivity};
 use super::thermal::{OneNode, TwoNode};
-use serde_json::{Map, Value};
 
 /// Loss model of a motor.
 #[derive(Debug, Clone, PartialEq)]
@@ -98,7 +97,25 @@ pub struct MotorModel {
     /// Datasheet overload rule: continuous power (W) and the permitted peak duration (s).
     pub overload: Option<(f64, f64)>,
     /// Sizing outputs and masses by part, for the result's `geometry` object.
-    pub geometry: Map<String, Value>,
+    pub geometry: Vec<(&'static str, Geo)>,
+}
+
+/// A value of the result's `geometry` object, kept without allocation until reported.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub enum Geo {
+    Num(f64),
+    Text(&'static str),
+    Null,
+}
+
+impl Geo {
+    pub fn to_json(self) -> serde_json::Value {
+        match self {
+            Geo::Num(x) => serde_json::json!(x),
+            Geo::Text(t) => serde_json::json!(t),
+            Geo::Null => serde_json::Value::Null,
+        }
+    }
 }
 
 /// Loss split of one operating point, W.
@@ -116,6 +133,14 @@ impl Losses {
 }
 
 impl MotorModel {
+    /// A numeric geometry output by name.
+    pub fn geo(&self, key: &str) -> Option<f64> {
+        self.geometry.iter().find(|(k, _)| *k == key).and_then(|(_, v)| match v {
+            Geo::Num(x) => Some(*x),
+            _ => None,
+        })
+    }
+
     /// Torque capability T_max(ω) = T_pk·min(1, ω_b/ω), N·m.
     pub fn torque_capability(&self, omega: f64) -> f64 {
         if omega <= self.base_speed_rad_s {

@@ -155,7 +155,7 @@ pub fn assemble(
             }
         }),
         mass_closure_converged: c.converged,
-        geometry: model.geometry.clone(),
+        geometry: model.geometry.iter().map(|(k, v)| (k.to_string(), v.to_json())).collect(),
         segments: f
             .nominal
             .iter()

@@ -115,7 +115,7 @@ fn finish(
                 ev.ctx,
                 cand,
                 t.worst_eased
-                    .map(|o| o.message)
+                    .and_then(|o| o.message)
                     .unwrap_or_else(|| "the motor cannot be built".into()),
                 a,
             ),

@@ -3,11 +3,11 @@
 
 use super::materials::{ALUMINIUM_SPECIFIC_HEAT, CU_SPECIFIC_HEAT, IRON_SPECIFIC_HEAT};
 use super::motor::{
+    Geo,
     CurrentModel, GapCylinder, LossModel, MotorModel, Sink, SizedLosses, ThermalModel,
 };
 use super::sizing::SizingParams;
 use super::thermal::TwoNode;
-use serde_json::{Map, Value, json};
 
 /// Context a sized motor needs from the study.
 #[derive(Debug, Clone, Copy, PartialEq)]
@@ -36,12 +36,12 @@ pub struct SizedParts {
     /// Conductances winding→stator and stator→coolant, W/K.
     pub g_ws: f64,
     pub g_sc: f64,
-    pub geometry: Map<String, Value>,
+    pub geometry: Vec<(&'static str, Geo)>,
 }
 
 impl SizedParts {
-    pub fn put(&mut self, key: &str, v: f64) {
-        self.geometry.insert(key.to_string(), json!(v));
+    pub fn put(&mut self, key: &'static str, v: f64) {
+        self.geometry.push((key, Geo::Num(v)));
     }
     fn stator_iron_mass(&self) -> f64 {
         self.iron_pieces.iter().map(|(m, _)| m).sum()

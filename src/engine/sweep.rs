@@ -1,0 +1,284 @@
+//! Design sweeps (issue: families of designs): vary one to three inputs of a sizing
+//! candidate over a full grid and score every design with the same engine, in parallel,
+//! streamed out in grid order in bounded chunks. Pure: progress and cancellation are
+//! atomics the caller owns.
+
+use super::error::InputError;
+use super::evaluate::{StudyContext, evaluate};
+use super::reader::fmt_num;
+use super::results::CandidateResult;
+use super::study::{Candidate, Cooling, SizingCommon, SizingMode, Source, Study};
+use rayon::prelude::*;
+use std::sync::atomic::{AtomicBool, AtomicUsize, Ordering};
+
+/// The most designs one sweep may hold.
+pub const MAX_DESIGNS: usize = 100_000;
+/// Designs scored together before their rows are handed out in order.
+pub const CHUNK: usize = 4096;
+
+/// An input a sweep may vary.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum Field {
+    OuterRadius,
+    BoreDiameter,
+    InnerOuterRatio,
+    AspectRatio,
+    PolePairs,
+    ElectricLoading,
+    CurrentDensity,
+    Cooling,
+}
+
+impl Field {
+    pub const NAMES: [&'static str; 8] = [
+        "outer_radius_m",
+        "bore_diameter_m",
+        "inner_outer_ratio",
+        "aspect_ratio",
+        "pole_pairs",
+        "electric_loading_a_per_m",
+        "current_density_a_per_mm2",
+        "cooling",
+    ];
+    const ALL: [Field; 8] = [
+        Field::OuterRadius,
+        Field::BoreDiameter,
+        Field::InnerOuterRatio,
+        Field::AspectRatio,
+        Field::PolePairs,
+        Field::ElectricLoading,
+        Field::CurrentDensity,
+        Field::Cooling,
+    ];
+    pub fn name(self) -> &'static str {
+        Self::NAMES[self as usize]
+    }
+    /// Allowed range of the field's values (cooling: class index 0–3).
+    fn range(self) -> (f64, f64) {
+        match self {
+            Field::OuterRadius => (0.01, 5.0),
+            Field::BoreDiameter => (0.01, 5.0),
+            Field::InnerOuterRatio => (0.05, 0.95),
+            Field::AspectRatio => (0.05, 10.0),
+            Field::PolePairs => (1.0, 100.0),
+            Field::ElectricLoading => (1000.0, 500_000.0),
+            Field::CurrentDensity => (0.5, 60.0),
+            Field::Cooling => (0.0, 3.0),
+        }
+    }
+}
+
+/// One varied input and its values.
+#[derive(Debug, Clone, PartialEq)]
+pub struct Axis {
+    pub field: Field,
+    pub values: Vec<f64>,
+}
+
+/// Parses `FIELD=FROM:TO:COUNT` (cooling: `cooling=natural_air,direct_oil,…`).
+pub fn parse_axis(spec: &str) -> Result<Axis, InputError> {
+    let (name, rest) = spec
+        .split_once('=')
+        .ok_or_else(|| InputError::new("vary", format!("\"{spec}\" must look like FIELD=FROM:TO:COUNT")))?;
+    let field = Field::ALL
+        .iter()
+        .copied()
+        .find(|f| f.name() == name)
+        .ok_or_else(|| InputError::new("vary", format!("\"{name}\" is not a sweep field; use one of {}", Field::NAMES.join(", "))))?;
+    let path = format!("vary.{name}");
+    if field == Field::Cooling {
+        let values = rest
+            .split(',')
+            .map(|c| Cooling::NAMES.iter().position(|n| *n == c).map(|i| i as f64))
+            .collect::<Option<Vec<f64>>>()
+            .ok_or_else(|| InputError::new(&path, format!("must list cooling classes from {}", Cooling::NAMES.join(", "))))?;
+        return Ok(Axis { field, values });
+    }
+    let parts: Vec<&str> = rest.split(':').collect();
+    let bad = || InputError::new(&path, "must be FROM:TO:COUNT with numbers, COUNT a whole number from 1 to 100000");
+    if parts.len() != 3 {
+        return Err(bad());
+    }
+    let from: f64 = parts[0].trim().parse().map_err(|_| bad())?;
+    let to: f64 = parts[1].trim().parse().map_err(|_| bad())?;
+    let count: usize = parts[2].trim().parse().map_err(|_| bad())?;
+    let (lo, hi) = field.range();
+    if !(from.is_finite() && to.is_finite()) || from < lo || to > hi || from > to || count == 0 || count > MAX_DESIGNS {
+        return Err(InputError::new(
+            &path,
+            format!("FROM and TO must lie from {} to {} with FROM ≤ TO, COUNT from 1 to {MAX_DESIGNS} (got {rest})", fmt_num(lo), fmt_num(hi)),
+        ));
+    }
+    let values = (0..count)
+        .map(|i| if count == 1 { from } else { from + (to - from) * i as f64 / (count - 1) as f64 })
+        .map(|v| if field == Field::PolePairs { v.round() } else { v })
+        .collect();
+    Ok(Axis { field, values })
+}
+
+/// A validated sweep of one candidate.
+#[derive(Debug, Clone)]
+pub struct Sweep {
+    pub candidate_index: usize,
+    pub axes: Vec<Axis>,
+}
+
+impl Sweep {
+    pub fn new(study: &Study, candidate: &str, axes: Vec<Axis>) -> Result<Sweep, InputError> {
+        let idx = study
+            .candidates
+            .iter()
+            .position(|c| c.name == candidate)
+            .ok_or_else(|| InputError::new("candidate", format!("no candidate named \"{candidate}\" in the study")))?;
+        if !matches!(study.candidates[idx].source, Source::RadialSizing(_) | Source::AxialSizing(_)) {
+            return Err(InputError::new("candidate", "sweeps need a radial_sizing or axial_sizing candidate"));
+        }
+        if axes.is_empty() || axes.len() > 3 {
+            return Err(InputError::new("vary", format!("vary one to three fields (got {})", axes.len())));
+        }
+        for (i, a) in axes.iter().enumerate() {
+            if axes[..i].iter().any(|b| b.field == a.field) {
+                return Err(InputError::new(format!("vary.{}", a.field.name()), "is varied twice"));
+            }
+        }
+        let sweep = Sweep { candidate_index: idx, axes };
+        let n = sweep.len();
+        if n > MAX_DESIGNS {
+            return Err(InputError::new("vary", format!("the grid holds {n} designs; at most {MAX_DESIGNS}")));
+        }
+        let base = &study.candidates[idx];
+        for axis in &sweep.axes {
+            check_applies(base, axis.field)?;
+        }
+        Ok(sweep)
+    }
+
+    /// Number of designs in the grid.
+    pub fn len(&self) -> usize {
+        self.axes.iter().map(|a| a.values.len()).product()
+    }
+
+    pub fn is_empty(&self) -> bool {
+        self.len() == 0
+    }
+
+    /// The varied values of design `i` (grid order: the first axis varies slowest).
+    pub fn values(&self, mut i: usize) -> Vec<f64> {
+        let mut out = vec![0.0; self.axes.len()];
+        for (k, a) in self.axes.iter().enumerate().rev() {
+            out[k] = a.values[i % a.values.len()];
+            i /= a.values.len();
+        }
+        out
+    }
+
+    /// Design `i` as a candidate of its own (a varied size puts it in geometry mode),
+    /// checked like any candidate input.
+    pub fn design(&self, base: &Candidate, i: usize) -> Result<Candidate, InputError> {
+        let c = self.raw_design(base, i);
+        super::validate::check_source(&c.source, "source")?;
+        Ok(c)
+    }
+
+    /// Design `i` without the input checks: a design that cannot be built scores as
+    /// infeasible with a geometry violation, so that every grid point has its row.
+    pub fn raw_design(&self, base: &Candidate, i: usize) -> Candidate {
+        let mut c = base.clone();
+        for (axis, v) in self.axes.iter().zip(self.values(i)) {
+            apply(&mut c, axis.field, v);
+        }
+        c.name = format!("{} #{}", base.name, i + 1);
+        c
+    }
+}
+
+fn check_applies(c: &Candidate, f: Field) -> Result<(), InputError> {
+    let radial = matches!(c.source, Source::RadialSizing(_));
+    let ok = match f {
+        Field::OuterRadius | Field::InnerOuterRatio => !radial,
+        Field::BoreDiameter | Field::AspectRatio => radial,
+        _ => true,
+    };
+    if ok {
+        Ok(())
+    } else {
+        Err(InputError::new(
+            format!("vary.{}", f.name()),
+            format!("does not apply to a {} candidate", c.source.kind_name()),
+        ))
+    }
+}
+
+fn common(c: &mut Candidate) -> &mut SizingCommon {
+    match &mut c.source {
+        Source::RadialSizing(r) => &mut r.common,
+        Source::AxialSizing(x) => &mut x.common,
+        Source::Datasheet(_) => unreachable!("sweeps are checked to be on sizing candidates"),
+    }
+}
+
+fn apply(c: &mut Candidate, f: Field, v: f64) {
+    match (&mut c.source, f) {
+        (Source::AxialSizing(x), Field::OuterRadius) => {
+            x.mode = SizingMode::Geometry;
+            x.outer_radius_m = Some(v);
+        }
+        (Source::AxialSizing(x), Field::InnerOuterRatio) => x.inner_outer_ratio = Some(v),
+        (Source::RadialSizing(r), Field::BoreDiameter) => {
+            let length = r.active_length_m.unwrap_or(v * r.aspect_ratio.unwrap_or(1.0));
+            let aspect = r.aspect_ratio.unwrap_or(length / r.bore_diameter_m.unwrap_or(v));
+            r.mode = SizingMode::Geometry;
+            r.bore_diameter_m = Some(v);
+            r.active_length_m = Some(aspect * v);
+            r.aspect_ratio = None;
+        }
+        (Source::RadialSizing(r), Field::AspectRatio) => match r.mode {
+            SizingMode::Geometry => r.active_length_m = Some(v * r.bore_diameter_m.unwrap_or(0.0)),
+            SizingMode::SizeToMission => r.aspect_ratio = Some(v),
+        },
+        (_, Field::PolePairs) => common(c).pole_pairs = v as u32,
+        (_, Field::ElectricLoading) => common(c).electric_loading_a_per_m = Some(v),
+        (_, Field::CurrentDensity) => common(c).current_density_a_per_mm2 = Some(v),
+        (_, Field::Cooling) => common(c).cooling = Some(Cooling::ALL[v as usize]),
+        _ => {}
+    }
+}
+
+/// Runs the sweep, handing each design's row to `emit` in grid order. Stops early when
+/// `cancel` is set; `done` counts scored designs. Returns the number of designs emitted.
+pub fn run(
+    study: &Study,
+    sweep: &Sweep,
+    done: &AtomicUsize,
+    cancel: &AtomicBool,
+    mut emit: impl FnMut(usize, &[f64], &CandidateResult),
+) -> usize {
+    let ctx = StudyContext::new(study);
+    let base = &study.candidates[sweep.candidate_index];
+    let n = sweep.len();
+    let mut emitted = 0;
+    for start in (0..n).step_by(CHUNK) {
+        if cancel.load(Ordering::Relaxed) {
+            break;
+        }
+        let end = (start + CHUNK).min(n);
+        let rows: Vec<Option<CandidateResult>> = (start..end)
+            .into_par_iter()
+            .map(|i| {
+                if cancel.load(Ordering::Relaxed) {
+                    return None;
+                }
+                let r = evaluate(&ctx, &sweep.raw_design(base, i));
+                done.fetch_add(1, Ordering::Relaxed);
+                Some(r)
+            })
+            .collect();
+        for (k, r) in rows.iter().enumerate() {
+            if let Some(r) = r {
+                emit(start + k, &sweep.values(start + k), r);
+                emitted += 1;
+            }
+        }
+    }
+    emitted
+}
