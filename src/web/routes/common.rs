@@ -11,8 +11,9 @@ use crate::web::error::AppError;
 use crate::web::forms::{Errors, Field, Values, field_for_path};
 use crate::web::validate::validate_doc;
 
-/// Hidden fields every form carries that are not part of the JSON object.
-const CONTROL_FIELDS: [&str; 4] = ["csrf_token", "revision", "kind", "direction"];
+/// Hidden fields forms carry that are not part of the JSON object. Their names must
+/// not collide with a field path: a segment has a `kind` of its own.
+const CONTROL_FIELDS: [&str; 4] = ["csrf_token", "revision", "candidate_kind", "direction"];
 
 /// Form pairs into values by field name (the last of repeated names wins).
 pub fn form_values(pairs: Vec<(String, String)>) -> Values {

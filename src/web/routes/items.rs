@@ -315,7 +315,7 @@ async fn create_candidate(
     studies::get_study(&state.db, id).await?;
     let kind = pairs
         .iter()
-        .find(|(k, _)| k == "kind")
+        .find(|(k, _)| k == "candidate_kind")
         .map(|(_, v)| v.clone())
         .unwrap_or_default();
     let t = candidate_target(id, None, &kind)?;
