@@ -6,6 +6,9 @@ pub mod demo;
 /// The pure computational core: study format, models, mission integration, scoring.
 pub mod engine;
 
+/// CSV exports of results over any writer (pure; used by the web and the CLI).
+pub mod export;
+
 /// Command-line subcommands of the binary.
 pub mod cli;
 /// Typed settings from flags and environment.

@@ -59,6 +59,7 @@ pub fn app(state: AppState) -> Router {
         .merge(routes::studies::router())
         .merge(routes::study::router())
         .merge(routes::items::router())
+        .merge(routes::exports::router())
         .merge(routes::api::router())
         .layer(from_fn_with_state(state.clone(), auth::csrf_guard))
         .layer(DefaultBodyLimit::max(auth::MAX_FORM_BYTES))

@@ -220,7 +220,12 @@ impl TestApp {
     }
 
     pub async fn get_export(&self, s: &Session, id: i64) -> Resp {
-        self.get(&format!("/studies/{id}/export"), Some(s)).await
+        self.get_download(s, id, "study.json").await
+    }
+
+    /// A study download: `summary.csv`, `segments.csv`, `oei_segments.csv`, `study.json`.
+    pub async fn get_download(&self, s: &Session, id: i64, file: &str) -> Resp {
+        self.get(&format!("/studies/{id}/{file}"), Some(s)).await
     }
 
     // ---- rows ("segments" or "candidates") ----
