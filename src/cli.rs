@@ -35,8 +35,10 @@ pub enum Commands {
         #[command(subcommand)]
         action: TokenAction,
     },
-    // ---- Engine subcommands (owned by the engine side): add `Score(..)` and
-    // ---- `Bench(..)` variants here and their arms in `main.rs`.
+    /// Score a study file headless (the same engine as the server).
+    Score(crate::cli_engine::ScoreArgs),
+    /// Print the engine benchmark figures.
+    Bench(crate::cli_engine::BenchArgs),
 }
 
 #[derive(Debug, Subcommand)]

@@ -6,13 +6,16 @@ pub mod demo;
 /// The pure computational core: study format, models, mission integration, scoring.
 pub mod engine;
 
-/// CSV exports of results over any writer (pure; used by the web and the CLI).
-pub mod export;
-
+/// The engine benchmark behind `shaftline bench`.
+pub mod bench;
 /// Command-line subcommands of the binary.
 pub mod cli;
+/// Engine subcommands of the binary: `score` and `bench`.
+pub mod cli_engine;
 /// Typed settings from flags and environment.
 pub mod config;
+/// CSV exports of results over any writer (pure; used by the web and the CLI).
+pub mod export;
 /// Password hashing and random tokens.
 pub mod secrets;
 /// First start: the admin account and the demo study.

@@ -17,5 +17,7 @@ async fn main() -> anyhow::Result<()> {
         Commands::Serve(args) => shaftline::web::serve(args).await,
         Commands::User { db, action } => cli::run_user(&db, action).await,
         Commands::Token { db, action } => cli::run_token(&db, action).await,
+        Commands::Score(args) => shaftline::cli_engine::run_score(&args),
+        Commands::Bench(args) => shaftline::cli_engine::run_bench(&args),
     }
 }

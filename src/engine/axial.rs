@@ -3,7 +3,7 @@
 
 use super::materials::{CU_DENSITY, NDFEB_DENSITY};
 use super::motor::MotorModel;
-use super::sized::{SizedContext, SizedParts, annulus, into_model};
+use super::sized::{SizedContext, SizedParts, annular_inertia, annulus, into_model};
 use super::sizing::SizingParams;
 use super::steel::STEEL_DENSITY_KG_M3 as RHO_FE;
 use super::study::AxialVariant;
@@ -62,8 +62,7 @@ pub fn build(
     let m_mag_each = NDFEB_DENSITY * p.pole_arc * face * hm;
     let m_yoke = if yoke { RHO_FE * face * h_r } else { 0.0 };
     let active = m_segments + m_cu + rotors * (m_rotor_each + m_mag_each) + m_yoke;
-    let inertia =
-        p.hub_factor * rotors * 0.5 * (m_rotor_each + m_mag_each) * (r_o * r_o + r_i * r_i);
+    let inertia = p.hub_factor * rotors * annular_inertia(m_rotor_each + m_mag_each, r_i, r_o);
     let stack = rotors * (h_r + hm) + gaps * p.gap + hs + if yoke { h_r / p.k_fe } else { 0.0 };
     let env_d = 2.0 * (r_o + l_end) + 2.0 * p.housing_radial;
     let env_l = stack + 2.0 * p.housing_axial;

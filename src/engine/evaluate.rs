@@ -8,6 +8,7 @@ use super::datasheet;
 use super::fly::{Drive, Flight, Prepared};
 use super::mission::MissionGrid;
 use super::motor::{MotorModel, Sink};
+use super::results::CandidateResult;
 use super::sized::SizedContext;
 use super::sizing::{self, SizingParams};
 use super::study::{AxialVariant, Candidate, Source, Study, Winding};
@@ -119,22 +120,36 @@ impl<'a> Evaluator<'a> {
 }
 
 /// Scores one candidate of the study (without the study-level Pareto and trade score).
-pub fn evaluate(ctx: &StudyContext, cand: &Candidate) -> super::results::CandidateResult {
+pub fn evaluate(ctx: &StudyContext, cand: &Candidate) -> CandidateResult {
+    evaluate_full(ctx, cand).0
+}
+
+/// Scores one candidate and returns its final motor model and drive as well (none when the
+/// motor cannot be built).
+pub fn evaluate_full(
+    ctx: &StudyContext,
+    cand: &Candidate,
+) -> (CandidateResult, Option<MotorModel>, Drive) {
     let mut a = Assumptions::default();
     let ev = evaluator(ctx, cand, &mut a);
-    match &cand.source {
+    let drive = ev.drive;
+    let (result, model) = match &cand.source {
         Source::Datasheet(d) => {
             let model = datasheet::build(d, &mut a);
             let run = ev.run(&model);
-            report::assemble(ctx, cand, &model, &run, None, a)
+            (
+                report::assemble(ctx, cand, &model, &run, None, a),
+                Some(model),
+            )
         }
         Source::RadialSizing(_) | Source::AxialSizing(_) => {
             match scalable(ctx, cand, &ev, &mut a) {
                 Ok((sc, fixed)) => search::evaluate_sized(&ev, cand, &sc, fixed, a),
-                Err(msg) => report::unbuildable(ctx, cand, msg, a),
+                Err(msg) => (report::unbuildable(ctx, cand, msg, a), None),
             }
         }
-    }
+    };
+    (result, model, drive)
 }
 
 fn evaluator<'a>(

@@ -10,6 +10,7 @@ pub mod datasheet;
 pub mod error;
 pub mod evaluate;
 pub mod fly;
+pub mod inspect;
 pub mod materials;
 pub mod mission;
 pub mod motor;
@@ -29,6 +30,7 @@ pub mod sizing;
 pub mod steel;
 pub mod study;
 pub mod thermal;
+mod validate;
 
 pub use score::{objectives as study_objectives, score_study};
 

@@ -125,6 +125,49 @@ impl MotorModel {
         }
     }
 
+    /// Continuous torque: rated torque up to base speed, constant power above it (sized
+    /// motors); min(T_r, P_cont/ω) for datasheet motors. N·m.
+    pub fn continuous_torque(&self, omega: f64) -> f64 {
+        let knee = match self.overload {
+            Some(_) => self.continuous_power_w / self.rated_torque_nm,
+            None => self.base_speed_rad_s,
+        };
+        if omega <= knee {
+            self.rated_torque_nm
+        } else {
+            self.rated_torque_nm * knee / omega
+        }
+    }
+
+    /// Motor efficiency at an operating point with sea-level ISA air for the windage;
+    /// `None` outside the torque or speed capability.
+    pub fn efficiency_at(
+        &self,
+        torque_nm: f64,
+        omega: f64,
+        winding_c: f64,
+        magnet_c: f64,
+    ) -> Option<f64> {
+        if torque_nm <= 0.0
+            || omega <= 0.0
+            || omega > self.max_speed_rad_s
+            || torque_nm > self.torque_capability(omega)
+        {
+            return None;
+        }
+        let air = super::atmosphere::air(0.0, 0.0);
+        let l = self.losses(
+            torque_nm,
+            omega,
+            winding_c,
+            magnet_c,
+            air.density_kg_m3,
+            air.kinematic_viscosity_m2_s(),
+        );
+        let p = torque_nm * omega;
+        Some(p / (p + l.total()))
+    }
+
     /// Magnet flux factor b = 1 + α_Br(θ_m − 20), floored at 0.1, with θ_m capped.
     pub fn flux_factor(&self, theta_m_c: f64) -> f64 {
         match &self.losses {

@@ -314,8 +314,10 @@ pub fn parse_candidate(v: &Value, path: &str) -> Result<Candidate, InputError> {
         .get("drive")
         .map(|d| parse_drive(d, &join(path, "drive")))
         .transpose()?;
-    let source = parse_source(o.req("source")?, &join(path, "source"))?;
+    let source_path = join(path, "source");
+    let source = parse_source(o.req("source")?, &source_path)?;
     o.finish()?;
+    super::validate::check_source(&source, &source_path)?;
     Ok(Candidate {
         name,
         drive,

@@ -3,7 +3,7 @@
 
 use super::materials::{CU_DENSITY, NDFEB_DENSITY};
 use super::motor::{GapCylinder, MotorModel};
-use super::sized::{SizedContext, SizedParts, annulus, into_model};
+use super::sized::{SizedContext, SizedParts, annular_inertia, annulus, into_model};
 use super::sizing::SizingParams;
 use super::steel::STEEL_DENSITY_KG_M3 as RHO_FE;
 use std::f64::consts::PI;
@@ -61,9 +61,8 @@ pub fn build(
     let m_mag = NDFEB_DENSITY * p.pole_arc * annulus(r_mi, r_mo) * length;
     let m_cu = CU_DENSITY * v_cu;
     let active = m_teeth + m_yoke + m_rotor + m_mag + m_cu;
-    let inertia = p.hub_factor
-        * 0.5
-        * (m_mag * (r_mo * r_mo + r_mi * r_mi) + m_rotor * (r_mi * r_mi + r_bi * r_bi));
+    let inertia =
+        p.hub_factor * (annular_inertia(m_mag, r_mi, r_mo) + annular_inertia(m_rotor, r_bi, r_mi));
     let env_d = d_so + 2.0 * p.housing_radial;
     let env_l = length + 2.0 * l_end + 2.0 * p.housing_axial;
     let w_s = s_slot / (p.slots * hs);
@@ -109,6 +108,8 @@ pub fn build(
         ("stator_yoke_mass_kg", m_yoke),
         ("rotor_iron_mass_kg", m_rotor),
         ("magnet_mass_kg", m_mag),
+        ("magnet_inner_radius_m", r_mi),
+        ("rotor_inner_radius_m", r_bi),
     ] {
         parts.put(k, v);
     }

@@ -62,15 +62,16 @@ pub fn evaluate_sized(
     sc: &Scalable,
     fixed: Option<f64>,
     mut a: Assumptions,
-) -> CandidateResult {
+) -> (CandidateResult, Option<MotorModel>) {
     let ctx = ev.ctx;
     if let Some(scale) = fixed {
         return match sc.build(scale) {
             Ok(model) => {
                 let run = ev.run(&model);
-                report::assemble(ctx, cand, &model, &run, None, a)
+                let r = report::assemble(ctx, cand, &model, &run, None, a);
+                (r, Some(model))
             }
-            Err(msg) => report::unbuildable(ctx, cand, msg, a),
+            Err(msg) => (report::unbuildable(ctx, cand, msg, a), None),
         };
     }
     let guess = sc.scale_for_torque(first_guess_torque(ev, sc));
@@ -103,16 +104,22 @@ fn finish(
     t: Trial,
     binding: Option<String>,
     a: Assumptions,
-) -> CandidateResult {
+) -> (CandidateResult, Option<MotorModel>) {
     match t.built {
-        Some((model, run)) => report::assemble(ev.ctx, cand, &model, &run, binding, a),
-        None => report::unbuildable(
-            ev.ctx,
-            cand,
-            t.worst_eased
-                .map(|o| o.message)
-                .unwrap_or_else(|| "the motor cannot be built".into()),
-            a,
+        Some((model, run)) => {
+            let r = report::assemble(ev.ctx, cand, &model, &run, binding, a);
+            (r, Some(model))
+        }
+        None => (
+            report::unbuildable(
+                ev.ctx,
+                cand,
+                t.worst_eased
+                    .map(|o| o.message)
+                    .unwrap_or_else(|| "the motor cannot be built".into()),
+                a,
+            ),
+            None,
         ),
     }
 }

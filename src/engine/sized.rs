@@ -114,3 +114,9 @@ pub fn into_model(p: &SizingParams, mut parts: SizedParts, ctx: &SizedContext) -
 pub fn annulus(r_i: f64, r_o: f64) -> f64 {
     std::f64::consts::PI * (r_o * r_o - r_i * r_i)
 }
+
+/// Moment of inertia of a thick ring or annular disc about its axis, ½·m·(r_o² + r_i²),
+/// kg·m² (handbook formula; r_i = 0 gives the solid disc ½·m·r²).
+pub fn annular_inertia(mass_kg: f64, r_i: f64, r_o: f64) -> f64 {
+    0.5 * mass_kg * (r_o * r_o + r_i * r_i)
+}

@@ -1,0 +1,74 @@
+//! Engine subcommands of the binary: headless scoring and the benchmark.
+
+use std::io::Write;
+use std::path::PathBuf;
+
+use anyhow::Context;
+use clap::{Args, ValueEnum};
+
+use crate::engine::{self, study};
+
+#[derive(Debug, Clone, Copy, PartialEq, Eq, ValueEnum)]
+pub enum OutputFormat {
+    Json,
+    Csv,
+}
+
+/// `shaftline score STUDY.json [--format json|csv] [--out FILE]`
+#[derive(Debug, Args)]
+pub struct ScoreArgs {
+    /// The study file (shaftline-study/1).
+    pub study: PathBuf,
+    /// Output format.
+    #[arg(long, value_enum, default_value = "json")]
+    pub format: OutputFormat,
+    /// Write the results here instead of standard output.
+    #[arg(long)]
+    pub out: Option<PathBuf>,
+}
+
+/// `shaftline bench [--runs N] [--designs N]`
+#[derive(Debug, Args)]
+pub struct BenchArgs {
+    /// Repetitions of each timed measurement (the median is printed).
+    #[arg(long, default_value_t = 30)]
+    pub runs: usize,
+    /// Geometry-mode axial designs scored in parallel for the throughput figure.
+    #[arg(long, default_value_t = 20_000)]
+    pub designs: usize,
+}
+
+/// Scores a study file. Bad input prints `error: <json path>: <message>` and exits 2.
+pub fn run_score(args: &ScoreArgs) -> anyhow::Result<()> {
+    let text = std::fs::read_to_string(&args.study)
+        .with_context(|| format!("reading {}", args.study.display()))?;
+    let study = match study::parse_study_str(&text) {
+        Ok(s) => s,
+        Err(e) => {
+            eprintln!("error: {}: {}", e.path, e.message);
+            std::process::exit(2);
+        }
+    };
+    let results = engine::score_study(&study);
+    let mut buf: Vec<u8> = Vec::new();
+    match args.format {
+        OutputFormat::Json => {
+            serde_json::to_writer_pretty(&mut buf, &results)?;
+            buf.push(b'\n');
+        }
+        OutputFormat::Csv => crate::export::write_summary_csv(&results, &mut buf)?,
+    }
+    match &args.out {
+        Some(path) => {
+            std::fs::write(path, &buf).with_context(|| format!("writing {}", path.display()))?
+        }
+        None => std::io::stdout().lock().write_all(&buf)?,
+    }
+    Ok(())
+}
+
+/// Prints the engine benchmark figures.
+pub fn run_bench(args: &BenchArgs) -> anyhow::Result<()> {
+    crate::bench::run(args.runs.max(1), args.designs.max(1));
+    Ok(())
+}
