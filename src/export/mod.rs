@@ -1,11 +1,16 @@
 //! Exports of engine results as CSV over any `std::io::Write`: pure functions of the
-//! results, shared by the web and the command line. No database, no HTTP, no files.
+//! results, shared by the web and the command line, and the datasheet-candidate CSV
+//! that comes the other way. No database, no HTTP, no files.
 //! Every CSV has exactly one header row and no comment lines; units ride in the
 //! column names; quoting follows RFC 4180 (CRLF line ends); text is UTF-8 without BOM.
 
+mod candidates;
 mod segments;
 mod summary;
 
+pub use candidates::{
+    RowError, TEMPLATE_COLUMNS, read_datasheet_candidates, write_candidate_template,
+};
 pub use segments::{SEGMENT_COLUMNS, write_segments_csv};
 pub use summary::{summary_columns, write_summary_csv};
 

@@ -228,6 +228,25 @@ impl TestApp {
         self.get(&format!("/studies/{id}/{file}"), Some(s)).await
     }
 
+    pub async fn get_candidate_template(&self, s: &Session) -> Resp {
+        self.get("/candidate-template.csv", Some(s)).await
+    }
+
+    pub async fn post_import_candidates(&self, s: &Session, id: i64, csv: &str) -> Resp {
+        let revision = storage::studies::get_study(&self.db, id)
+            .await
+            .unwrap()
+            .revision
+            .to_string();
+        let path = format!("/studies/{id}/candidates/import");
+        self.submit(
+            &path,
+            s,
+            &[("revision", &revision), ("candidates_csv", csv)],
+        )
+        .await
+    }
+
     // ---- rows ("segments" or "candidates") ----
 
     pub async fn get_new_row_form(&self, s: &Session, id: i64, list: &str, query: &str) -> Resp {

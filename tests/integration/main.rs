@@ -7,6 +7,7 @@ mod cli;
 mod exports;
 mod forms;
 mod helpers;
+mod import;
 mod rows;
 mod storage;
 mod studies;

@@ -5,6 +5,7 @@ pub mod api;
 pub mod candidate;
 pub mod common;
 pub mod exports;
+pub mod import;
 pub mod items;
 pub mod studies;
 pub mod study;
