@@ -247,6 +247,12 @@ impl TestApp {
         .await
     }
 
+    /// The compare page; `query` such as `?c=1&c=2&base=2`.
+    pub async fn get_compare(&self, s: &Session, id: i64, query: &str) -> Resp {
+        self.get(&format!("/studies/{id}/compare{query}"), Some(s))
+            .await
+    }
+
     // ---- rows ("segments" or "candidates") ----
 
     pub async fn get_new_row_form(&self, s: &Session, id: i64, list: &str, query: &str) -> Resp {

@@ -4,6 +4,7 @@ mod accounts;
 mod api;
 mod browser;
 mod cli;
+mod compare;
 mod exports;
 mod forms;
 mod helpers;

@@ -4,6 +4,7 @@ pub mod accounts;
 pub mod api;
 pub mod candidate;
 pub mod common;
+pub mod compare;
 pub mod exports;
 pub mod import;
 pub mod items;
