@@ -14,7 +14,7 @@ pub mod cli;
 pub mod cli_engine;
 /// Typed settings from flags and environment.
 pub mod config;
-/// CSV exports of results.
+/// CSV exports of results over any writer (pure; used by the web and the CLI).
 pub mod export;
 /// Password hashing and random tokens.
 pub mod secrets;

@@ -1,116 +1,57 @@
-//! CSV exports of results over any writer: one header row, units in the column names,
-//! RFC 4180 quoting, UTF-8. No database, no HTTP.
+//! Exports of engine results as CSV over any `std::io::Write`: pure functions of the
+//! results, shared by the web and the command line, and the datasheet-candidate CSV
+//! that comes the other way. No database, no HTTP, no files.
+//! Every CSV has exactly one header row and no comment lines; units ride in the
+//! column names; quoting follows RFC 4180 (CRLF line ends); text is UTF-8 without BOM.
 
-use std::io::Write;
+mod candidates;
+mod segments;
+mod summary;
 
-use crate::engine::results::{CandidateResult, METRICS, SegmentRow, StudyResults};
+pub use candidates::{
+    RowError, TEMPLATE_COLUMNS, read_datasheet_candidates, write_candidate_template,
+};
+pub use segments::{SEGMENT_COLUMNS, write_segments_csv};
+pub use summary::{summary_columns, write_summary_csv};
 
-fn metric_cell(c: &CandidateResult, name: &str) -> String {
-    match name {
-        "mass_closure_converged" => c.mass_closure_converged.to_string(),
-        "rank" => c.rank.map(|r| r.to_string()).unwrap_or_default(),
-        _ => c.metric(name).map(|v| v.to_string()).unwrap_or_default(),
+use serde_json::Value;
+
+/// A CSV writer with the project's dialect.
+fn writer<W: std::io::Write>(out: W) -> csv::Writer<W> {
+    csv::WriterBuilder::new()
+        .terminator(csv::Terminator::CRLF)
+        .from_writer(out)
+}
+
+/// The text of a result value in a cell: numbers in full precision (they parse back to
+/// the same `f64`), `true`/`false`, text as is, and null as an empty cell.
+fn cell(v: &Value) -> String {
+    match v {
+        Value::Null => String::new(),
+        Value::Bool(b) => b.to_string(),
+        Value::String(s) => s.clone(),
+        Value::Number(n) => match (n.as_i64(), n.as_f64()) {
+            (Some(i), _) => i.to_string(),
+            (None, Some(x)) => x.to_string(),
+            (None, None) => n.to_string(),
+        },
+        other => other.to_string(),
     }
 }
 
-/// One row per candidate: identity, verdict, every scalar metric, front membership and the
-/// violation messages.
-pub fn write_summary_csv(results: &StudyResults, out: impl Write) -> csv::Result<()> {
-    let mut w = csv::Writer::from_writer(out);
-    let mut header = vec!["name", "kind", "topology", "feasible", "binding_constraint"];
-    header.extend(METRICS.iter().map(|(n, _)| *n));
-    header.extend(["pareto_optimal", "violations"]);
-    w.write_record(&header)?;
-    for c in &results.candidates {
-        let mut row = vec![
-            c.name.clone(),
-            c.kind.clone(),
-            c.topology.clone(),
-            c.feasible.to_string(),
-            c.binding_constraint.clone().unwrap_or_default(),
-        ];
-        row.extend(METRICS.iter().map(|(n, _)| metric_cell(c, n)));
-        row.push(c.pareto_optimal.to_string());
-        row.push(
-            c.violations
-                .iter()
-                .map(|v| v.message.as_str())
-                .collect::<Vec<_>>()
-                .join("; "),
-        );
-        w.write_record(&row)?;
+/// A result object as JSON, so that every column is read by its result-format key.
+fn as_object<T: serde::Serialize>(row: &T) -> csv::Result<serde_json::Map<String, Value>> {
+    match serde_json::to_value(row) {
+        Ok(Value::Object(m)) => Ok(m),
+        Ok(_) => Err(std::io::Error::other("result row is not an object").into()),
+        Err(e) => Err(std::io::Error::other(e).into()),
     }
-    w.flush()?;
-    Ok(())
 }
 
-const SEGMENT_COLUMNS: [&str; 20] = [
-    "segment",
-    "kind",
-    "duration_s",
-    "shaft_power_kw_per_motor",
-    "motor_speed_rpm",
-    "motor_torque_nm",
-    "peak_torque_nm",
-    "torque_capability_nm",
-    "motor_efficiency",
-    "copper_loss_w",
-    "iron_loss_w",
-    "mechanical_loss_w",
-    "inverter_loss_w",
-    "electric_power_kw",
-    "battery_energy_kwh",
-    "end_winding_temp_c",
-    "peak_winding_temp_c",
-    "end_stator_temp_c",
-    "peak_stator_temp_c",
-    "peak_phase_current_a",
-];
-
-fn segment_cells(r: &SegmentRow) -> Vec<String> {
-    let nums = [
-        r.duration_s,
-        r.shaft_power_kw_per_motor,
-        r.motor_speed_rpm,
-        r.motor_torque_nm,
-        r.peak_torque_nm,
-        r.torque_capability_nm,
-        r.motor_efficiency,
-        r.copper_loss_w,
-        r.iron_loss_w,
-        r.mechanical_loss_w,
-        r.inverter_loss_w,
-        r.electric_power_kw,
-        r.battery_energy_kwh,
-        r.end_winding_temp_c,
-        r.peak_winding_temp_c,
-        r.end_stator_temp_c,
-        r.peak_stator_temp_c,
-    ];
-    let mut cells = vec![r.name.clone(), r.kind.clone()];
-    cells.extend(nums.iter().map(|v| v.to_string()));
-    cells.push(
-        r.peak_phase_current_a
-            .map(|v| v.to_string())
-            .unwrap_or_default(),
-    );
-    cells
-}
-
-/// One row per candidate × segment: the nominal mission, or the one-motor-out runs.
-pub fn write_segments_csv(results: &StudyResults, oei: bool, out: impl Write) -> csv::Result<()> {
-    let mut w = csv::Writer::from_writer(out);
-    let mut header = vec!["candidate"];
-    header.extend(SEGMENT_COLUMNS);
-    w.write_record(&header)?;
-    for c in &results.candidates {
-        let rows = if oei { &c.oei_segments } else { &c.segments };
-        for r in rows {
-            let mut row = vec![c.name.clone()];
-            row.extend(segment_cells(r));
-            w.write_record(&row)?;
-        }
-    }
-    w.flush()?;
-    Ok(())
+/// The cell of `key`; a key the results do not have is a programming error, reported
+/// rather than written as a silent blank.
+fn field(obj: &serde_json::Map<String, Value>, key: &str) -> csv::Result<String> {
+    obj.get(key)
+        .map(cell)
+        .ok_or_else(|| std::io::Error::other(format!("results have no field '{key}'")).into())
 }

@@ -1,7 +1,7 @@
 //! Segment and candidate rows of a study: insert, update, reorder, delete. Every write
 //! checks the row's revision and bumps the study's, in one transaction.
 
-use super::studies::{Item, ItemRow, bump_study, get_item};
+use super::studies::{Item, ItemRow, bump_study, get_item, study_conflict};
 use super::{Db, Result, StorageError, now_text};
 use serde_json::Value;
 use sqlx::AssertSqlSafe;
@@ -13,6 +13,29 @@ pub enum MoveDirection {
     Down,
 }
 
+async fn insert_row(
+    tx: &mut sqlx::Transaction<'_, sqlx::Sqlite>,
+    item: Item,
+    study_id: i64,
+    body: &Value,
+    by: &str,
+) -> Result<i64> {
+    let sql = format!(
+        "INSERT INTO {t} (study_id, position, body, updated_at, updated_by)
+         VALUES (?, (SELECT COALESCE(MAX(position) + 1, 0) FROM {t} WHERE study_id = ?), ?, ?, ?)",
+        t = item.table()
+    );
+    Ok(sqlx::query(AssertSqlSafe(sql))
+        .bind(study_id)
+        .bind(study_id)
+        .bind(body.to_string())
+        .bind(now_text())
+        .bind(by)
+        .execute(&mut **tx)
+        .await?
+        .last_insert_rowid())
+}
+
 /// Appends a row at the end of the study's list. Returns the new row's id.
 pub async fn insert_item(
     db: &Db,
@@ -22,23 +45,42 @@ pub async fn insert_item(
     by: &str,
 ) -> Result<i64> {
     let mut tx = db.begin().await?;
-    let sql = format!(
-        "INSERT INTO {t} (study_id, position, body, updated_at, updated_by)
-         VALUES (?, (SELECT COALESCE(MAX(position) + 1, 0) FROM {t} WHERE study_id = ?), ?, ?, ?)",
-        t = item.table()
-    );
     bump_study(&mut tx, study_id, by).await?;
-    let id = sqlx::query(AssertSqlSafe(sql.clone()))
-        .bind(study_id)
-        .bind(study_id)
-        .bind(body.to_string())
-        .bind(now_text())
-        .bind(by)
-        .execute(&mut *tx)
-        .await?
-        .last_insert_rowid();
+    let id = insert_row(&mut tx, item, study_id, body, by).await?;
     tx.commit().await?;
     Ok(id)
+}
+
+/// Appends rows at the end of the study's list, all of them or none, provided
+/// `revision` is still the study's revision (the one they were validated against).
+/// Returns the study's new revision.
+pub async fn append_items(
+    db: &Db,
+    item: Item,
+    study_id: i64,
+    revision: i64,
+    bodies: &[Value],
+    by: &str,
+) -> Result<i64> {
+    let mut tx = db.begin().await?;
+    let current: Option<(i64,)> = sqlx::query_as("SELECT revision FROM study WHERE id = ?")
+        .bind(study_id)
+        .fetch_optional(&mut *tx)
+        .await?;
+    match current {
+        None => return Err(StorageError::NotFound { what: "study" }),
+        Some((rev,)) if rev != revision => {
+            drop(tx);
+            return Err(study_conflict(db, study_id).await);
+        }
+        Some(_) => {}
+    }
+    for body in bodies {
+        insert_row(&mut tx, item, study_id, body, by).await?;
+    }
+    let rev = bump_study(&mut tx, study_id, by).await?;
+    tx.commit().await?;
+    Ok(rev)
 }
 
 async fn item_conflict(db: &Db, item: Item, study_id: i64, id: i64) -> StorageError {

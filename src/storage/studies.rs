@@ -283,7 +283,7 @@ pub(super) async fn bump_study(tx: &mut Transaction<'_, Sqlite>, id: i64, by: &s
     Ok(rev)
 }
 
-async fn study_conflict(db: &Db, id: i64) -> StorageError {
+pub(super) async fn study_conflict(db: &Db, id: i64) -> StorageError {
     match get_study(db, id).await {
         Ok(row) => StorageError::Conflict {
             by: row.updated_by,
@@ -365,4 +365,6 @@ pub async fn replace_study(
     Ok(rev)
 }
 
-pub use super::items::{MoveDirection, delete_item, insert_item, move_item, update_item};
+pub use super::items::{
+    MoveDirection, append_items, delete_item, insert_item, move_item, update_item,
+};

@@ -59,6 +59,9 @@ pub fn app(state: AppState) -> Router {
         .merge(routes::studies::router())
         .merge(routes::study::router())
         .merge(routes::items::router())
+        .merge(routes::exports::router())
+        .merge(routes::import::router())
+        .merge(routes::compare::router())
         .merge(routes::api::router())
         .layer(from_fn_with_state(state.clone(), auth::csrf_guard))
         .layer(DefaultBodyLimit::max(auth::MAX_FORM_BYTES))
@@ -83,6 +86,7 @@ pub async fn serve(args: ServeArgs) -> anyhow::Result<()> {
         writeln!(out, "admin password: {password}")?;
         out.flush()?;
     }
+    let shutdown = shutdown_signal().context("installing the signal handlers")?;
     let listener = tokio::net::TcpListener::bind(args.addr)
         .await
         .with_context(|| format!("listening on {}", args.addr))?;
@@ -91,7 +95,7 @@ pub async fn serve(args: ServeArgs) -> anyhow::Result<()> {
     std::io::stdout().flush()?;
     let state = AppState::new(db.clone(), WebConfig::from(&args));
     axum::serve(listener, app(state))
-        .with_graceful_shutdown(shutdown_signal())
+        .with_graceful_shutdown(shutdown)
         .await
         .context("serving")?;
     db.close().await;
@@ -99,20 +103,18 @@ pub async fn serve(args: ServeArgs) -> anyhow::Result<()> {
     Ok(())
 }
 
-async fn shutdown_signal() {
-    let ctrl_c = async {
-        let _ = tokio::signal::ctrl_c().await;
-    };
+/// Installs the SIGINT/SIGTERM handlers now and returns the future that waits for
+/// either. Installing them before the listening line is printed means a signal sent
+/// right after that line still shuts down gracefully instead of killing the process.
+fn shutdown_signal() -> std::io::Result<impl std::future::Future<Output = ()>> {
     #[cfg(unix)]
-    let term = async {
-        match tokio::signal::unix::signal(tokio::signal::unix::SignalKind::terminate()) {
-            Ok(mut s) => {
-                s.recv().await;
-            }
-            Err(_) => std::future::pending::<()>().await,
-        }
-    };
-    #[cfg(not(unix))]
-    let term = std::future::pending::<()>();
-    tokio::select! { _ = ctrl_c => {}, _ = term => {} }
+    let mut term = tokio::signal::unix::signal(tokio::signal::unix::SignalKind::terminate())?;
+    #[cfg(unix)]
+    let mut int = tokio::signal::unix::signal(tokio::signal::unix::SignalKind::interrupt())?;
+    Ok(async move {
+        #[cfg(unix)]
+        tokio::select! { _ = term.recv() => {}, _ = int.recv() => {} }
+        #[cfg(not(unix))]
+        let _ = tokio::signal::ctrl_c().await;
+    })
 }

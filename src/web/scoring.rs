@@ -9,6 +9,7 @@ use serde_json::Value;
 use sha2::{Digest, Sha256};
 
 use crate::engine::ENGINE_VERSION;
+use crate::engine::results::StudyResults;
 use crate::engine::study::Study;
 
 use super::error::AppError;
@@ -16,9 +17,16 @@ use super::error::AppError;
 /// Most result sets kept; past this the cache starts afresh.
 const CACHE_CAPACITY: usize = 64;
 
+/// One scored study: the engine's results and the same results as result-format JSON
+/// (what the API returns and the pages read).
+pub struct Scored {
+    pub results: StudyResults,
+    pub json: Value,
+}
+
 #[derive(Default)]
 pub struct ResultsCache {
-    map: Mutex<HashMap<String, Arc<Value>>>,
+    map: Mutex<HashMap<String, Arc<Scored>>>,
 }
 
 /// The cache key: SHA-256 over the canonical study JSON and the engine version.
@@ -31,7 +39,7 @@ pub fn cache_key(study: &Study) -> String {
 }
 
 impl ResultsCache {
-    fn get(&self, key: &str) -> Option<Arc<Value>> {
+    fn get(&self, key: &str) -> Option<Arc<Scored>> {
         self.map
             .lock()
             .unwrap_or_else(|e| e.into_inner())
@@ -39,7 +47,7 @@ impl ResultsCache {
             .cloned()
     }
 
-    fn put(&self, key: String, value: Arc<Value>) {
+    fn put(&self, key: String, value: Arc<Scored>) {
         let mut map = self.map.lock().unwrap_or_else(|e| e.into_inner());
         if map.len() >= CACHE_CAPACITY {
             map.clear();
@@ -56,21 +64,22 @@ impl ResultsCache {
         self.len() == 0
     }
 
-    /// The results of `study` as result-format JSON, from the cache or freshly scored.
-    pub async fn results(&self, study: &Study) -> Result<Arc<Value>, AppError> {
+    /// The results of `study`, from the cache or freshly scored.
+    pub async fn results(&self, study: &Study) -> Result<Arc<Scored>, AppError> {
         let key = cache_key(study);
         if let Some(hit) = self.get(&key) {
             return Ok(hit);
         }
         let owned = study.clone();
-        let value = tokio::task::spawn_blocking(move || {
-            serde_json::to_value(crate::engine::score_study(&owned))
+        let scored = tokio::task::spawn_blocking(move || {
+            let results = crate::engine::score_study(&owned);
+            serde_json::to_value(&results).map(|json| Scored { results, json })
         })
         .await
         .map_err(|e| AppError::Internal(format!("scoring task failed: {e}")))?
         .map_err(|e| AppError::Internal(format!("results not serialisable: {e}")))?;
-        let value = Arc::new(value);
-        self.put(key, value.clone());
-        Ok(value)
+        let scored = Arc::new(scored);
+        self.put(key, scored.clone());
+        Ok(scored)
     }
 }

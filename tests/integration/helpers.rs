@@ -220,7 +220,37 @@ impl TestApp {
     }
 
     pub async fn get_export(&self, s: &Session, id: i64) -> Resp {
-        self.get(&format!("/studies/{id}/export"), Some(s)).await
+        self.get_download(s, id, "study.json").await
+    }
+
+    /// A study download: `summary.csv`, `segments.csv`, `oei_segments.csv`, `study.json`.
+    pub async fn get_download(&self, s: &Session, id: i64, file: &str) -> Resp {
+        self.get(&format!("/studies/{id}/{file}"), Some(s)).await
+    }
+
+    pub async fn get_candidate_template(&self, s: &Session) -> Resp {
+        self.get("/candidate-template.csv", Some(s)).await
+    }
+
+    pub async fn post_import_candidates(&self, s: &Session, id: i64, csv: &str) -> Resp {
+        let revision = storage::studies::get_study(&self.db, id)
+            .await
+            .unwrap()
+            .revision
+            .to_string();
+        let path = format!("/studies/{id}/candidates/import");
+        self.submit(
+            &path,
+            s,
+            &[("revision", &revision), ("candidates_csv", csv)],
+        )
+        .await
+    }
+
+    /// The compare page; `query` such as `?c=1&c=2&base=2`.
+    pub async fn get_compare(&self, s: &Session, id: i64, query: &str) -> Resp {
+        self.get(&format!("/studies/{id}/compare{query}"), Some(s))
+            .await
     }
 
     // ---- rows ("segments" or "candidates") ----

@@ -214,7 +214,7 @@ async fn a_datasheet_candidate_is_created_edited_and_shown() {
     let app = spawn_app().await;
     let eve = app.session("eve").await;
     let fields = [
-        ("kind", "datasheet"),
+        ("candidate_kind", "datasheet"),
         ("name", "DS-9 test motor"),
         ("drive.gear_ratio", "1"),
         ("source.topology", "radial"),

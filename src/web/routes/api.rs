@@ -184,5 +184,5 @@ async fn get_results(
         .results(&study)
         .await
         .map_err(|e| ApiError::new(StatusCode::INTERNAL_SERVER_ERROR, "", e.to_string()))?;
-    Ok(([etag(row.revision)], Json(results.as_ref().clone())).into_response())
+    Ok(([etag(row.revision)], Json(results.json.clone())).into_response())
 }

@@ -219,7 +219,7 @@ pub async fn show_candidate(
     };
     if let Some(study) = &loaded.study {
         let results = state.results.results(study).await?;
-        if let Some(r) = results.get("candidates").and_then(|c| c.get(index)) {
+        if let Some(r) = results.json.get("candidates").and_then(|c| c.get(index)) {
             fill_results(&mut page, r);
         }
     }

@@ -9,10 +9,12 @@ use crate::storage::studies::{self, StudyDoc, StudyRow};
 use crate::web::AppState;
 use crate::web::error::AppError;
 use crate::web::forms::{Errors, Field, Values, field_for_path};
+use crate::web::scoring::Scored;
 use crate::web::validate::validate_doc;
 
-/// Hidden fields every form carries that are not part of the JSON object.
-const CONTROL_FIELDS: [&str; 4] = ["csrf_token", "revision", "kind", "direction"];
+/// Hidden fields forms carry that are not part of the JSON object. Their names must
+/// not collide with a field path: a segment has a `kind` of its own.
+const CONTROL_FIELDS: [&str; 4] = ["csrf_token", "revision", "candidate_kind", "direction"];
 
 /// Form pairs into values by field name (the last of repeated names wins).
 pub fn form_values(pairs: Vec<(String, String)>) -> Values {
@@ -104,4 +106,19 @@ pub fn text(v: &Value) -> String {
         }
         other => other.to_string(),
     }
+}
+
+/// A stored study with its results, for the pages that need results to show anything
+/// (exports, compare, trade); a study that cannot be scored yet is a 409 naming why.
+pub async fn scored_study(
+    state: &AppState,
+    id: i64,
+) -> Result<(LoadedStudy, std::sync::Arc<Scored>), AppError> {
+    let loaded = load_study(state, id).await?;
+    let Some(study) = &loaded.study else {
+        let why = loaded.problem.clone().unwrap_or_default();
+        return Err(AppError::Conflict(format!("No results yet. {why}")));
+    };
+    let scored = state.results.results(study).await?;
+    Ok((loaded, scored))
 }

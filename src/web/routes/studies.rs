@@ -1,14 +1,13 @@
-//! The studies list: new study, import a study file, duplicate, export `study.json`.
+//! The studies list: new study, import a study file, duplicate.
 
 use askama::Template;
 use axum::Router;
 use axum::extract::{Form, Path, State};
-use axum::http::header;
 use axum::response::{IntoResponse, Redirect, Response};
 use axum::routing::{get, post};
 use serde::Deserialize;
 
-use super::common::{form_values, load_study, place_error};
+use super::common::{form_values, place_error};
 use crate::engine::study::parse_study_str;
 use crate::storage::studies::{self, StudyDoc, StudySummary};
 use crate::web::AppState;
@@ -25,7 +24,6 @@ pub fn router() -> Router<AppState> {
         .route("/studies", post(create_study))
         .route("/studies/import", post(import_study))
         .route("/studies/{id}/duplicate", post(duplicate_study))
-        .route("/studies/{id}/export", get(export_study))
 }
 
 #[derive(Template)]
@@ -148,26 +146,4 @@ async fn duplicate_study(
     doc.name = format!("{} (copy)", doc.name);
     let new_id = studies::insert_study(&state.db, &doc, &user.username).await?;
     Ok(Redirect::to(&format!("/studies/{new_id}")).into_response())
-}
-
-async fn export_study(
-    State(state): State<AppState>,
-    Viewer(_): Viewer,
-    Path(id): Path<i64>,
-) -> Result<Response, AppError> {
-    let loaded = load_study(&state, id).await?;
-    let body = match &loaded.study {
-        Some(study) => serde_json::to_string_pretty(study),
-        None => serde_json::to_string_pretty(&loaded.doc.to_file_json()),
-    }
-    .map_err(|e| AppError::Internal(e.to_string()))?;
-    let disposition = format!("attachment; filename=\"study-{id}.json\"");
-    Ok((
-        [
-            (header::CONTENT_TYPE, "application/json".to_string()),
-            (header::CONTENT_DISPOSITION, disposition),
-        ],
-        body,
-    )
-        .into_response())
 }

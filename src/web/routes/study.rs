@@ -133,7 +133,7 @@ async fn candidate_lines(
         let body = row.json()?;
         let r = results
             .as_ref()
-            .and_then(|r| r.get("candidates"))
+            .and_then(|r| r.json.get("candidates"))
             .and_then(|c| c.get(i));
         let g = |k: &str, d: usize| num(r.and_then(|r| r.get(k)), d);
         let kind = str_at(&body, &["source", "kind"]);
