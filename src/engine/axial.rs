@@ -114,7 +114,10 @@ pub fn build(
         parts.put(k, v);
     }
     if yoke {
-        parts.geometry.push(("note", Geo::Text("single-sided: unbalanced axial pull on the bearings")));
+        parts.geometry.push((
+            "note",
+            Geo::Text("single-sided: unbalanced axial pull on the bearings"),
+        ));
     }
     into_model(p, parts, ctx)
 }

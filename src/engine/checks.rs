@@ -24,7 +24,10 @@ pub const CHECKS: [&str; 11] = [
 
 /// Checks that a larger motor eases (size-to-mission's first group, §9).
 pub fn eased_by_size(check: &str) -> bool {
-    matches!(check, "torque" | "winding_temperature" | "magnet_temperature" | "geometry")
+    matches!(
+        check,
+        "torque" | "winding_temperature" | "magnet_temperature" | "geometry"
+    )
 }
 
 /// One evaluated check.
@@ -69,23 +72,47 @@ impl Outcome {
 }
 
 fn check_index(name: &str) -> usize {
-    CHECKS.iter().position(|c| *c == name).unwrap_or(CHECKS.len() - 1)
+    CHECKS
+        .iter()
+        .position(|c| *c == name)
+        .unwrap_or(CHECKS.len() - 1)
 }
 
 fn where_(grid: &MissionGrid, seg: usize, oei: bool) -> String {
     let name = &grid.segments[seg].name;
-    if oei { format!("in {name} (one motor out)") } else { format!("in {name}") }
+    if oei {
+        format!("in {name} (one motor out)")
+    } else {
+        format!("in {name}")
+    }
 }
 
 /// Mission checks of one segment row.
-fn segment_outcomes(model: &MotorModel, seg: usize, oei: bool, s: &SegStats, out: &mut Vec<Outcome>) {
+fn segment_outcomes(
+    model: &MotorModel,
+    seg: usize,
+    oei: bool,
+    s: &SegStats,
+    out: &mut Vec<Outcome>,
+) {
     let mut push = |check: &str, value: f64, limit: f64| {
-        out.push(Outcome { check: check_index(check), segment: Some(seg), oei, value, limit, message: None });
+        out.push(Outcome {
+            check: check_index(check),
+            segment: Some(seg),
+            oei,
+            value,
+            limit,
+            message: None,
+        });
     };
     push("torque", s.max_torque_nm, s.capability_nm);
     let to_rpm = 30.0 / std::f64::consts::PI;
     push("speed", s.omega * to_rpm, model.max_speed_rad_s * to_rpm);
-    push("winding_temperature", s.peak_winding_c, model.winding_limit_c);
+    push(
+        "winding_temperature",
+        s.peak_winding_c,
+        model.winding_limit_c,
+    );
     if let Some(lim) = model.magnet_limit_c {
         push("magnet_temperature", s.peak_stator_c, lim);
     }
@@ -99,7 +126,10 @@ pub fn describe(o: &Outcome, grid: &MissionGrid) -> String {
     if let Some(m) = &o.message {
         return m.clone();
     }
-    let at = o.segment.map(|i| where_(grid, i, o.oei)).unwrap_or_default();
+    let at = o
+        .segment
+        .map(|i| where_(grid, i, o.oei))
+        .unwrap_or_default();
     let (v, l) = (o.value, o.limit);
     match o.name() {
         "torque" => format!("torque demand reaches {v:.1} N·m {at}; capability {l:.1} N·m"),
@@ -107,9 +137,13 @@ pub fn describe(o: &Outcome, grid: &MissionGrid) -> String {
         "winding_temperature" => format!(
             "winding temperature reaches {v:.1} °C {at}; limit {l:.1} °C (insulation class less hot-spot allowance)"
         ),
-        "magnet_temperature" => format!("magnet temperature reaches {v:.1} °C {at}; limit {l:.1} °C"),
+        "magnet_temperature" => {
+            format!("magnet temperature reaches {v:.1} °C {at}; limit {l:.1} °C")
+        }
         "overload_duration" => {
-            format!("torque stays above the continuous rating for {v:.0} s {at}; the datasheet permits {l:.0} s")
+            format!(
+                "torque stays above the continuous rating for {v:.0} s {at}; the datasheet permits {l:.0} s"
+            )
         }
         "envelope_diameter" => format!("envelope diameter {v:.3} m; installation allows {l:.3} m"),
         "envelope_length" => format!("envelope length {v:.3} m; installation allows {l:.3} m"),
@@ -117,7 +151,9 @@ pub fn describe(o: &Outcome, grid: &MissionGrid) -> String {
             "the takeoff mass does not close below 3 × the maximum takeoff mass; at {l:.1} kg the parts sum to {v:.1} kg"
         ),
         "max_takeoff_mass" => format!("takeoff mass {v:.1} kg; maximum {l:.1} kg"),
-        "energy_margin" => format!("the mission needs {v:.2} kWh; the battery holds {l:.2} kWh usable"),
+        "energy_margin" => {
+            format!("the mission needs {v:.2} kWh; the battery holds {l:.2} kWh usable")
+        }
         _ => "the motor cannot be built at this size".to_string(),
     }
 }
@@ -133,7 +169,12 @@ pub struct Limits {
 }
 
 /// Every check outcome of a flown candidate, in tie order.
-pub fn outcomes(model: &MotorModel, flight: &Flight, closure: &Closure, lim: &Limits) -> Vec<Outcome> {
+pub fn outcomes(
+    model: &MotorModel,
+    flight: &Flight,
+    closure: &Closure,
+    lim: &Limits,
+) -> Vec<Outcome> {
     let mut out = Vec::with_capacity(5 * (flight.nominal.len() + flight.oei.len()) + 4);
     for (i, s) in flight.nominal.iter().enumerate() {
         segment_outcomes(model, i, false, s, &mut out);
@@ -142,7 +183,14 @@ pub fn outcomes(model: &MotorModel, flight: &Flight, closure: &Closure, lim: &Li
         segment_outcomes(model, *i, true, s, &mut out);
     }
     let mut push = |check: &str, value: f64, limit: f64| {
-        out.push(Outcome { check: check_index(check), segment: None, oei: false, value, limit, message: None });
+        out.push(Outcome {
+            check: check_index(check),
+            segment: None,
+            oei: false,
+            value,
+            limit,
+            message: None,
+        });
     };
     if let (Some(v), Some(l)) = (model.envelope_diameter_m, lim.max_diameter_m) {
         push("envelope_diameter", v, l);
@@ -164,7 +212,14 @@ pub fn outcomes(model: &MotorModel, flight: &Flight, closure: &Closure, lim: &Li
 
 /// A geometry failure as an outcome (size-to-mission: a scale at which the motor cannot be built).
 pub fn geometry_outcome(message: String) -> Outcome {
-    Outcome { check: check_index("geometry"), segment: None, oei: false, value: 1.0, limit: 0.0, message: Some(message) }
+    Outcome {
+        check: check_index("geometry"),
+        segment: None,
+        oei: false,
+        value: 1.0,
+        limit: 0.0,
+        message: Some(message),
+    }
 }
 
 /// The failed outcomes as violations.
@@ -186,7 +241,10 @@ pub fn violations(outcomes: &[Outcome], grid: &MissionGrid) -> Vec<Violation> {
 /// The binding outcome: a failed mass closure; otherwise the smallest relative margin
 /// (for an infeasible candidate, the largest relative exceedance); ties in tie order.
 pub fn binding(outcomes: &[Outcome], filter: impl Fn(&Outcome) -> bool) -> Option<&Outcome> {
-    if let Some(o) = outcomes.iter().find(|o| o.name() == "mass_closure" && o.failed()) {
+    if let Some(o) = outcomes
+        .iter()
+        .find(|o| o.name() == "mass_closure" && o.failed())
+    {
         return Some(o);
     }
     let mut best: Option<&Outcome> = None;

@@ -4,7 +4,9 @@
 
 use super::assume::Assumptions;
 use super::materials::insulation_class_temp_c;
-use super::motor::{Geo, CurrentModel, LossModel, MotorModel, Sink, ThermalModel, resistance_ratio};
+use super::motor::{
+    CurrentModel, Geo, LossModel, MotorModel, Sink, ThermalModel, resistance_ratio,
+};
 use super::nnls::nnls;
 use super::study::{DatasheetSource, InsulationClass, Topology};
 use super::thermal::OneNode;
@@ -109,7 +111,11 @@ pub fn build(d: &DatasheetSource, a: &mut Assumptions) -> MotorModel {
         Topology::Radial => "radial",
         Topology::Axial => "axial",
     };
-    let method = if fit.rms_error.is_some() { "nnls_fit" } else { "split" };
+    let method = if fit.rms_error.is_some() {
+        "nnls_fit"
+    } else {
+        "split"
+    };
     let geometry = vec![
         ("topology", Geo::Text(topology)),
         ("loss_model", Geo::Text(method)),
@@ -117,7 +123,10 @@ pub fn build(d: &DatasheetSource, a: &mut Assumptions) -> MotorModel {
         ("loss_k_linear_w_s", Geo::Num(fit.k_h)),
         ("loss_k_quadratic_w_s2", Geo::Num(fit.k_e)),
         ("loss_k_constant_w", Geo::Num(fit.k_0)),
-        ("loss_fit_rms_error", fit.rms_error.map_or(Geo::Null, Geo::Num)),
+        (
+            "loss_fit_rms_error",
+            fit.rms_error.map_or(Geo::Null, Geo::Num),
+        ),
         ("thermal_resistance_k_per_w", Geo::Num(resistance)),
         ("thermal_capacitance_j_per_k", Geo::Num(tau / resistance)),
     ];

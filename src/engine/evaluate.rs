@@ -95,7 +95,11 @@ impl<'a> Evaluator<'a> {
         let mut flight = Flight::default();
         let closure = closure::close(&self.ctx.grid, &prep, &self.aircraft, &mut flight);
         let outcomes = checks::outcomes(model, &flight, &closure, &self.limits);
-        Run { closure, flight, outcomes }
+        Run {
+            closure,
+            flight,
+            outcomes,
+        }
     }
 }
 
@@ -110,7 +114,20 @@ pub fn evaluate_full(
     ctx: &StudyContext,
     cand: &Candidate,
 ) -> (CandidateResult, Option<MotorModel>, Drive) {
-    let mut a = Assumptions::default();
+    evaluate_with(ctx, cand, Assumptions::default())
+}
+
+/// The metrics of a candidate without its per-segment rows, geometry or assumption texts:
+/// the rows of a sweep. Every metric equals that of [`evaluate`].
+pub fn evaluate_lean(ctx: &StudyContext, cand: &Candidate) -> CandidateResult {
+    evaluate_with(ctx, cand, Assumptions::quiet()).0
+}
+
+fn evaluate_with(
+    ctx: &StudyContext,
+    cand: &Candidate,
+    mut a: Assumptions,
+) -> (CandidateResult, Option<MotorModel>, Drive) {
     let ev = evaluator(ctx, cand, &mut a);
     let drive = ev.drive;
     let (result, model) = match &cand.source {
@@ -285,7 +302,12 @@ fn scalable(
 
 /// Scores a candidate with a given motor model (a design frozen at its nominal size), its
 /// losses scaled by `loss_scale`; used by the robustness samples.
-pub fn evaluate_frozen(ctx: &StudyContext, cand: &Candidate, model: &MotorModel, loss_scale: f64) -> CandidateResult {
+pub fn evaluate_frozen(
+    ctx: &StudyContext,
+    cand: &Candidate,
+    model: &MotorModel,
+    loss_scale: f64,
+) -> CandidateResult {
     let mut a = Assumptions::default();
     let mut ev = evaluator(ctx, cand, &mut a);
     ev.drive.loss_scale = loss_scale;

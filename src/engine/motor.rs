@@ -135,10 +135,13 @@ impl Losses {
 impl MotorModel {
     /// A numeric geometry output by name.
     pub fn geo(&self, key: &str) -> Option<f64> {
-        self.geometry.iter().find(|(k, _)| *k == key).and_then(|(_, v)| match v {
-            Geo::Num(x) => Some(*x),
-            _ => None,
-        })
+        self.geometry
+            .iter()
+            .find(|(k, _)| *k == key)
+            .and_then(|(_, v)| match v {
+                Geo::Num(x) => Some(*x),
+                _ => None,
+            })
     }
 
     /// Torque capability T_max(ω) = T_pk·min(1, ω_b/ω), N·m.

@@ -106,6 +106,7 @@ pub fn assemble(
     let need_kwh = f.battery_j / 3.6e6;
     let margin_kwh = fixed.then(|| usable / 3.6e6 - need_kwh);
     let mass = model.mass_kg;
+    let detail = !a.is_quiet();
     CandidateResult {
         name: cand.name.clone(),
         kind: cand.source.kind_name().to_string(),
@@ -155,18 +156,32 @@ pub fn assemble(
             }
         }),
         mass_closure_converged: c.converged,
-        geometry: model.geometry.iter().map(|(k, v)| (k.to_string(), v.to_json())).collect(),
-        segments: f
-            .nominal
-            .iter()
-            .enumerate()
-            .map(|(i, s)| row(ctx, i, s, has_current))
-            .collect(),
-        oei_segments: f
-            .oei
-            .iter()
-            .map(|(i, s)| row(ctx, *i, s, has_current))
-            .collect(),
+        geometry: if detail {
+            model
+                .geometry
+                .iter()
+                .map(|(k, v)| (k.to_string(), v.to_json()))
+                .collect()
+        } else {
+            Map::new()
+        },
+        segments: match detail {
+            true => f
+                .nominal
+                .iter()
+                .enumerate()
+                .map(|(i, s)| row(ctx, i, s, has_current))
+                .collect(),
+            false => Vec::new(),
+        },
+        oei_segments: match detail {
+            true => f
+                .oei
+                .iter()
+                .map(|(i, s)| row(ctx, *i, s, has_current))
+                .collect(),
+            false => Vec::new(),
+        },
         pareto_optimal: false,
         trade_score: None,
         rank: None,

@@ -50,7 +50,11 @@ impl Uncertainty {
             if !(lo.is_finite() && hi.is_finite() && lo > 0.0 && lo <= hi && hi <= 10.0) {
                 return Err(InputError::new(
                     format!("uncertainty.{name}"),
-                    format!("must be multipliers with 0 < low ≤ high ≤ 10 (got {}..{})", fmt_num(lo), fmt_num(hi)),
+                    format!(
+                        "must be multipliers with 0 < low ≤ high ≤ 10 (got {}..{})",
+                        fmt_num(lo),
+                        fmt_num(hi)
+                    ),
                 ));
             }
         }
@@ -86,7 +90,10 @@ fn perturbed(study: &Study, e: f64, cd0: f64, eta: f64) -> Study {
         *c *= cd0;
     }
     for seg in &mut s.segments {
-        if let PowerRule::Steady { prop_efficiency, .. } = &mut seg.power {
+        if let PowerRule::Steady {
+            prop_efficiency, ..
+        } = &mut seg.power
+        {
             *prop_efficiency = (*prop_efficiency * eta).min(1.0);
         }
     }
@@ -95,17 +102,40 @@ fn perturbed(study: &Study, e: f64, cd0: f64, eta: f64) -> Study {
 
 /// Runs `samples` draws. Designs are frozen at their nominal size (a sized motor is the
 /// motor the team would buy); a candidate that cannot be built counts as never feasible.
-pub fn run(study: &Study, unc: &Uncertainty, samples: usize, uniform: &mut dyn FnMut() -> f64) -> Robustness {
+pub fn run(
+    study: &Study,
+    unc: &Uncertainty,
+    samples: usize,
+    uniform: &mut dyn FnMut() -> f64,
+) -> Robustness {
     let ctx = StudyContext::new(study);
-    let nominal: Vec<(CandidateResult, Option<MotorModel>)> =
-        study.candidates.par_iter().map(|c| { let (r, m, _) = evaluate_full(&ctx, c); (r, m) }).collect();
+    let nominal: Vec<(CandidateResult, Option<MotorModel>)> = study
+        .candidates
+        .par_iter()
+        .map(|c| {
+            let (r, m, _) = evaluate_full(&ctx, c);
+            (r, m)
+        })
+        .collect();
     let objectives = objectives(study);
     let weights = study.scoring.as_ref().and_then(|s| s.weights.as_ref());
     let n = study.candidates.len();
     let mut counts = vec![[0usize; 3]; n];
     for _ in 0..samples {
-        let s = perturbed(study, draw(uniform, unc.battery_specific_energy), draw(uniform, unc.cd0), draw(uniform, unc.prop_efficiency));
-        let scales: Vec<(f64, f64)> = (0..n).map(|_| (draw(uniform, unc.motor_mass), draw(uniform, unc.motor_losses))).collect();
+        let s = perturbed(
+            study,
+            draw(uniform, unc.battery_specific_energy),
+            draw(uniform, unc.cd0),
+            draw(uniform, unc.prop_efficiency),
+        );
+        let scales: Vec<(f64, f64)> = (0..n)
+            .map(|_| {
+                (
+                    draw(uniform, unc.motor_mass),
+                    draw(uniform, unc.motor_losses),
+                )
+            })
+            .collect();
         let sctx = StudyContext::new(&s);
         let mut results: Vec<CandidateResult> = nominal
             .par_iter()
@@ -127,14 +157,26 @@ pub fn run(study: &Study, unc: &Uncertainty, samples: usize, uniform: &mut dyn F
             counts[k][2] += (r.rank == Some(1)) as usize;
         }
     }
-    let p = |c: usize| if samples == 0 { 0.0 } else { c as f64 / samples as f64 };
+    let p = |c: usize| {
+        if samples == 0 {
+            0.0
+        } else {
+            c as f64 / samples as f64
+        }
+    };
     Robustness {
         samples,
         uncertainty: *unc,
         candidates: nominal
             .iter()
             .zip(&counts)
-            .map(|((r, _), c)| RobustRow { name: r.name.clone(), nominal_feasible: r.feasible, p_feasible: p(c[0]), p_pareto: p(c[1]), p_best: p(c[2]) })
+            .map(|((r, _), c)| RobustRow {
+                name: r.name.clone(),
+                nominal_feasible: r.feasible,
+                p_feasible: p(c[0]),
+                p_pareto: p(c[1]),
+                p_best: p(c[2]),
+            })
             .collect(),
     }
 }

@@ -3,8 +3,7 @@
 
 use super::materials::{ALUMINIUM_SPECIFIC_HEAT, CU_SPECIFIC_HEAT, IRON_SPECIFIC_HEAT};
 use super::motor::{
-    Geo,
-    CurrentModel, GapCylinder, LossModel, MotorModel, Sink, SizedLosses, ThermalModel,
+    CurrentModel, GapCylinder, Geo, LossModel, MotorModel, Sink, SizedLosses, ThermalModel,
 };
 use super::sizing::SizingParams;
 use super::thermal::TwoNode;

@@ -4,7 +4,7 @@
 //! atomics the caller owns.
 
 use super::error::InputError;
-use super::evaluate::{StudyContext, evaluate};
+use super::evaluate::{StudyContext, evaluate_lean};
 use super::reader::fmt_num;
 use super::results::CandidateResult;
 use super::study::{Candidate, Cooling, SizingCommon, SizingMode, Source, Study};
@@ -77,25 +77,54 @@ pub struct Axis {
 
 /// Parses `FIELD=FROM:TO:COUNT` (cooling: `cooling=natural_air,direct_oil,…`).
 pub fn parse_axis(spec: &str) -> Result<Axis, InputError> {
-    let (name, rest) = spec
-        .split_once('=')
-        .ok_or_else(|| InputError::new("vary", format!("\"{spec}\" must look like FIELD=FROM:TO:COUNT")))?;
+    let (name, rest) = spec.split_once('=').ok_or_else(|| {
+        InputError::new(
+            "vary",
+            format!("\"{spec}\" must look like FIELD=FROM:TO:COUNT"),
+        )
+    })?;
     let field = Field::ALL
         .iter()
         .copied()
         .find(|f| f.name() == name)
-        .ok_or_else(|| InputError::new("vary", format!("\"{name}\" is not a sweep field; use one of {}", Field::NAMES.join(", "))))?;
+        .ok_or_else(|| {
+            InputError::new(
+                "vary",
+                format!(
+                    "\"{name}\" is not a sweep field; use one of {}",
+                    Field::NAMES.join(", ")
+                ),
+            )
+        })?;
     let path = format!("vary.{name}");
     if field == Field::Cooling {
         let values = rest
             .split(',')
-            .map(|c| Cooling::NAMES.iter().position(|n| *n == c).map(|i| i as f64))
+            .map(|c| {
+                Cooling::NAMES
+                    .iter()
+                    .position(|n| *n == c)
+                    .map(|i| i as f64)
+            })
             .collect::<Option<Vec<f64>>>()
-            .ok_or_else(|| InputError::new(&path, format!("must list cooling classes from {}", Cooling::NAMES.join(", "))))?;
+            .ok_or_else(|| {
+                InputError::new(
+                    &path,
+                    format!(
+                        "must list cooling classes from {}",
+                        Cooling::NAMES.join(", ")
+                    ),
+                )
+            })?;
         return Ok(Axis { field, values });
     }
     let parts: Vec<&str> = rest.split(':').collect();
-    let bad = || InputError::new(&path, "must be FROM:TO:COUNT with numbers, COUNT a whole number from 1 to 100000");
+    let bad = || {
+        InputError::new(
+            &path,
+            "must be FROM:TO:COUNT with numbers, COUNT a whole number from 1 to 100000",
+        )
+    };
     if parts.len() != 3 {
         return Err(bad());
     }
@@ -103,15 +132,37 @@ pub fn parse_axis(spec: &str) -> Result<Axis, InputError> {
     let to: f64 = parts[1].trim().parse().map_err(|_| bad())?;
     let count: usize = parts[2].trim().parse().map_err(|_| bad())?;
     let (lo, hi) = field.range();
-    if !(from.is_finite() && to.is_finite()) || from < lo || to > hi || from > to || count == 0 || count > MAX_DESIGNS {
+    if !(from.is_finite() && to.is_finite())
+        || from < lo
+        || to > hi
+        || from > to
+        || count == 0
+        || count > MAX_DESIGNS
+    {
         return Err(InputError::new(
             &path,
-            format!("FROM and TO must lie from {} to {} with FROM ≤ TO, COUNT from 1 to {MAX_DESIGNS} (got {rest})", fmt_num(lo), fmt_num(hi)),
+            format!(
+                "FROM and TO must lie from {} to {} with FROM ≤ TO, COUNT from 1 to {MAX_DESIGNS} (got {rest})",
+                fmt_num(lo),
+                fmt_num(hi)
+            ),
         ));
     }
     let values = (0..count)
-        .map(|i| if count == 1 { from } else { from + (to - from) * i as f64 / (count - 1) as f64 })
-        .map(|v| if field == Field::PolePairs { v.round() } else { v })
+        .map(|i| {
+            if count == 1 {
+                from
+            } else {
+                from + (to - from) * i as f64 / (count - 1) as f64
+            }
+        })
+        .map(|v| {
+            if field == Field::PolePairs {
+                v.round()
+            } else {
+                v
+            }
+        })
         .collect();
     Ok(Axis { field, values })
 }
@@ -129,22 +180,45 @@ impl Sweep {
             .candidates
             .iter()
             .position(|c| c.name == candidate)
-            .ok_or_else(|| InputError::new("candidate", format!("no candidate named \"{candidate}\" in the study")))?;
-        if !matches!(study.candidates[idx].source, Source::RadialSizing(_) | Source::AxialSizing(_)) {
-            return Err(InputError::new("candidate", "sweeps need a radial_sizing or axial_sizing candidate"));
+            .ok_or_else(|| {
+                InputError::new(
+                    "candidate",
+                    format!("no candidate named \"{candidate}\" in the study"),
+                )
+            })?;
+        if !matches!(
+            study.candidates[idx].source,
+            Source::RadialSizing(_) | Source::AxialSizing(_)
+        ) {
+            return Err(InputError::new(
+                "candidate",
+                "sweeps need a radial_sizing or axial_sizing candidate",
+            ));
         }
         if axes.is_empty() || axes.len() > 3 {
-            return Err(InputError::new("vary", format!("vary one to three fields (got {})", axes.len())));
+            return Err(InputError::new(
+                "vary",
+                format!("vary one to three fields (got {})", axes.len()),
+            ));
         }
         for (i, a) in axes.iter().enumerate() {
             if axes[..i].iter().any(|b| b.field == a.field) {
-                return Err(InputError::new(format!("vary.{}", a.field.name()), "is varied twice"));
+                return Err(InputError::new(
+                    format!("vary.{}", a.field.name()),
+                    "is varied twice",
+                ));
             }
         }
-        let sweep = Sweep { candidate_index: idx, axes };
+        let sweep = Sweep {
+            candidate_index: idx,
+            axes,
+        };
         let n = sweep.len();
         if n > MAX_DESIGNS {
-            return Err(InputError::new("vary", format!("the grid holds {n} designs; at most {MAX_DESIGNS}")));
+            return Err(InputError::new(
+                "vary",
+                format!("the grid holds {n} designs; at most {MAX_DESIGNS}"),
+            ));
         }
         let base = &study.candidates[idx];
         for axis in &sweep.axes {
@@ -225,8 +299,12 @@ fn apply(c: &mut Candidate, f: Field, v: f64) {
         }
         (Source::AxialSizing(x), Field::InnerOuterRatio) => x.inner_outer_ratio = Some(v),
         (Source::RadialSizing(r), Field::BoreDiameter) => {
-            let length = r.active_length_m.unwrap_or(v * r.aspect_ratio.unwrap_or(1.0));
-            let aspect = r.aspect_ratio.unwrap_or(length / r.bore_diameter_m.unwrap_or(v));
+            let length = r
+                .active_length_m
+                .unwrap_or(v * r.aspect_ratio.unwrap_or(1.0));
+            let aspect = r
+                .aspect_ratio
+                .unwrap_or(length / r.bore_diameter_m.unwrap_or(v));
             r.mode = SizingMode::Geometry;
             r.bore_diameter_m = Some(v);
             r.active_length_m = Some(aspect * v);
@@ -268,7 +346,7 @@ pub fn run(
                 if cancel.load(Ordering::Relaxed) {
                     return None;
                 }
-                let r = evaluate(&ctx, &sweep.raw_design(base, i));
+                let r = evaluate_lean(&ctx, &sweep.raw_design(base, i));
                 done.fetch_add(1, Ordering::Relaxed);
                 Some(r)
             })

@@ -25,9 +25,7 @@ fn ctx() -> SizedContext {
 }
 
 fn geo(m: &MotorModel, key: &str) -> f64 {
-    m.geometry[key]
-        .as_f64()
-        .unwrap_or_else(|| panic!("geometry.{key}"))
+    m.geo(key).unwrap_or_else(|| panic!("geometry.{key}"))
 }
 
 #[test]
