@@ -7,6 +7,7 @@ pub mod fields;
 pub mod forms;
 pub mod html;
 pub mod limiter;
+pub mod plots;
 pub mod routes;
 pub mod scoring;
 pub mod validate;

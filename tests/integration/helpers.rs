@@ -58,6 +58,16 @@ fn set_cookie_pair(r: &Resp, name: &str) -> Option<String> {
         .map(|v| v.split(';').next().unwrap_or("").to_string())
 }
 
+/// A folder for test artefacts (plots, screenshots) under the target directory.
+pub fn artefact_dir(name: &str) -> std::path::PathBuf {
+    let target = std::env::var_os("CARGO_TARGET_DIR")
+        .map(std::path::PathBuf::from)
+        .unwrap_or_else(|| std::path::Path::new(env!("CARGO_MANIFEST_DIR")).join("target"));
+    let dir = target.join(name);
+    std::fs::create_dir_all(&dir).expect("artefact folder");
+    dir
+}
+
 pub async fn spawn_app() -> TestApp {
     let db = storage::open_memory().await.expect("in-memory database");
     let demo_id = shaftline::setup::seed_demo(&db)
