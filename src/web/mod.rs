@@ -63,6 +63,7 @@ pub fn app(state: AppState) -> Router {
         .merge(routes::exports::router())
         .merge(routes::import::router())
         .merge(routes::compare::router())
+        .merge(routes::trade::router())
         .merge(routes::api::router())
         .layer(from_fn_with_state(state.clone(), auth::csrf_guard))
         .layer(DefaultBodyLimit::max(auth::MAX_FORM_BYTES))

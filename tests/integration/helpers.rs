@@ -263,6 +263,27 @@ impl TestApp {
             .await
     }
 
+    /// The trade page; `query` such as `?x=motor_mass_kg&y=mission_energy_kwh`.
+    pub async fn get_trade(&self, s: &Session, id: i64, query: &str) -> Resp {
+        self.get(&format!("/studies/{id}/trade{query}"), Some(s))
+            .await
+    }
+
+    /// Saves trade weights (`weight.<objective>` pairs) on the study at `revision`.
+    pub async fn post_weights(
+        &self,
+        s: &Session,
+        id: i64,
+        revision: i64,
+        pairs: &[(&str, &str)],
+    ) -> Resp {
+        let rev = revision.to_string();
+        let mut all = vec![("revision", rev.as_str())];
+        all.extend_from_slice(pairs);
+        self.submit(&format!("/studies/{id}/trade/weights"), s, &all)
+            .await
+    }
+
     // ---- rows ("segments" or "candidates") ----
 
     pub async fn get_new_row_form(&self, s: &Session, id: i64, list: &str, query: &str) -> Resp {

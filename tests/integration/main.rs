@@ -13,3 +13,4 @@ mod plots;
 mod rows;
 mod storage;
 mod studies;
+mod trade;
