@@ -154,7 +154,7 @@ async fn plot_sizes(
     Ok(sizes)
 }
 
-/// Opens `path`, keeps a full-page screenshot as `NAME.png`, returns the plot sizes.
+/// Opens `url`, keeps a screenshot of the window as `NAME.png`, returns the plot sizes.
 async fn shoot(
     client: &fantoccini::Client,
     url: &str,
