@@ -16,6 +16,8 @@ pub mod cli_engine;
 pub mod config;
 /// CSV exports of results over any writer (pure; used by the web and the CLI).
 pub mod export;
+/// Plots of results as SVG strings (pure; used by the pages).
+pub mod plots;
 /// Password hashing and random tokens.
 pub mod secrets;
 /// First start: the admin account and the demo study.

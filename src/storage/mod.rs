@@ -3,6 +3,7 @@
 
 pub mod accounts;
 mod items;
+pub mod scoring;
 pub mod studies;
 
 use std::str::FromStr;

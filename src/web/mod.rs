@@ -7,6 +7,7 @@ pub mod fields;
 pub mod forms;
 pub mod html;
 pub mod limiter;
+pub mod plots;
 pub mod routes;
 pub mod scoring;
 pub mod validate;
@@ -62,6 +63,7 @@ pub fn app(state: AppState) -> Router {
         .merge(routes::exports::router())
         .merge(routes::import::router())
         .merge(routes::compare::router())
+        .merge(routes::trade::router())
         .merge(routes::api::router())
         .layer(from_fn_with_state(state.clone(), auth::csrf_guard))
         .layer(DefaultBodyLimit::max(auth::MAX_FORM_BYTES))

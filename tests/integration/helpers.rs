@@ -58,6 +58,16 @@ fn set_cookie_pair(r: &Resp, name: &str) -> Option<String> {
         .map(|v| v.split(';').next().unwrap_or("").to_string())
 }
 
+/// A folder for test artefacts (plots, screenshots) under the target directory.
+pub fn artefact_dir(name: &str) -> std::path::PathBuf {
+    let target = std::env::var_os("CARGO_TARGET_DIR")
+        .map(std::path::PathBuf::from)
+        .unwrap_or_else(|| std::path::Path::new(env!("CARGO_MANIFEST_DIR")).join("target"));
+    let dir = target.join(name);
+    std::fs::create_dir_all(&dir).expect("artefact folder");
+    dir
+}
+
 pub async fn spawn_app() -> TestApp {
     let db = storage::open_memory().await.expect("in-memory database");
     let demo_id = shaftline::setup::seed_demo(&db)
@@ -250,6 +260,27 @@ impl TestApp {
     /// The compare page; `query` such as `?c=1&c=2&base=2`.
     pub async fn get_compare(&self, s: &Session, id: i64, query: &str) -> Resp {
         self.get(&format!("/studies/{id}/compare{query}"), Some(s))
+            .await
+    }
+
+    /// The trade page; `query` such as `?x=motor_mass_kg&y=mission_energy_kwh`.
+    pub async fn get_trade(&self, s: &Session, id: i64, query: &str) -> Resp {
+        self.get(&format!("/studies/{id}/trade{query}"), Some(s))
+            .await
+    }
+
+    /// Saves trade weights (`weight.<objective>` pairs) on the study at `revision`.
+    pub async fn post_weights(
+        &self,
+        s: &Session,
+        id: i64,
+        revision: i64,
+        pairs: &[(&str, &str)],
+    ) -> Resp {
+        let rev = revision.to_string();
+        let mut all = vec![("revision", rev.as_str())];
+        all.extend_from_slice(pairs);
+        self.submit(&format!("/studies/{id}/trade/weights"), s, &all)
             .await
     }
 

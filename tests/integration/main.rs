@@ -9,6 +9,8 @@ mod exports;
 mod forms;
 mod helpers;
 mod import;
+mod plots;
 mod rows;
 mod storage;
 mod studies;
+mod trade;

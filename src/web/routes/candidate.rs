@@ -15,6 +15,7 @@ use crate::web::error::AppError;
 use crate::web::fields::candidate_fields;
 use crate::web::forms;
 use crate::web::html::{HtmlTemplate, Nav};
+use crate::web::plots::{Figure, candidate_figures};
 
 /// Key result metrics shown in order: JSON key and label with unit.
 const METRICS: &[(&str, &str)] = &[
@@ -92,6 +93,7 @@ struct CandidatePage {
     assumptions: Vec<String>,
     segment_columns: Vec<&'static str>,
     segment_tables: Vec<SegmentTable>,
+    figures: Vec<Figure>,
     engine_version: &'static str,
 }
 
@@ -215,6 +217,7 @@ pub async fn show_candidate(
         assumptions: Vec::new(),
         segment_columns: SEGMENT_COLUMNS.to_vec(),
         segment_tables: Vec::new(),
+        figures: Vec::new(),
         engine_version: ENGINE_VERSION,
     };
     if let Some(study) = &loaded.study {
@@ -222,6 +225,7 @@ pub async fn show_candidate(
         if let Some(r) = results.json.get("candidates").and_then(|c| c.get(index)) {
             fill_results(&mut page, r);
         }
+        page.figures = candidate_figures(study, index).await?;
     }
     Ok(HtmlTemplate(page).into_response())
 }

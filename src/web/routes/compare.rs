@@ -17,6 +17,7 @@ use crate::web::AppState;
 use crate::web::auth::Viewer;
 use crate::web::error::AppError;
 use crate::web::html::{HtmlTemplate, Nav};
+use crate::web::plots::{Figure, compare_figure};
 
 pub fn router() -> Router<AppState> {
     Router::new().route("/studies/{id}/compare", get(show_compare))
@@ -53,6 +54,7 @@ struct ComparePage {
     columns: Vec<(String, bool)>,
     rows: Vec<MetricRow>,
     problem: Option<String>,
+    figures: Vec<Figure>,
     engine_version: &'static str,
 }
 
@@ -208,6 +210,10 @@ async fn show_compare(
             base: Some(r.id) == base_id,
         })
         .collect();
+    let figures = match (&loaded.study, &problem) {
+        (Some(study), None) => vec![compare_figure(study, indices.clone()).await?],
+        _ => Vec::new(),
+    };
     let page = ComparePage {
         nav: Nav::of(&user),
         id,
@@ -224,6 +230,7 @@ async fn show_compare(
             Vec::new()
         },
         problem,
+        figures,
         engine_version: ENGINE_VERSION,
     };
     Ok(HtmlTemplate(page).into_response())

@@ -11,3 +11,4 @@ pub mod items;
 pub mod studies;
 pub mod study;
 pub mod system;
+pub mod trade;
