@@ -5,6 +5,7 @@ pub mod api;
 pub mod candidate;
 pub mod common;
 pub mod items;
+pub mod reviews;
 pub mod studies;
 pub mod study;
 pub mod system;
