@@ -162,7 +162,6 @@ impl Minutes<'_> {
         }
         row(["engine", "", "", "", "", &r.engine_version], &blank)?;
         row(["caution", "", "", "", "", CAUTION], &blank)?;
-        drop(row);
         w.into_inner().map_err(|e| e.into_error().into())
     }
 }
