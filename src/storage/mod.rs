@@ -3,6 +3,7 @@
 
 pub mod accounts;
 mod items;
+pub mod reviews;
 pub mod scoring;
 pub mod studies;
 
@@ -30,6 +31,9 @@ pub enum StorageError {
     Conflict { by: String, at: String },
     #[error("{0}")]
     Invalid(String),
+    /// A write to something that no longer accepts writes (a closed review).
+    #[error("{0}")]
+    Closed(String),
 }
 
 pub type Result<T> = std::result::Result<T, StorageError>;

@@ -28,6 +28,7 @@ impl From<StorageError> for AppError {
             StorageError::NotFound { what } => AppError::NotFound(format!("no such {what}")),
             StorageError::Conflict { .. } => AppError::Conflict(e.to_string()),
             StorageError::Invalid(m) => AppError::BadRequest(m),
+            StorageError::Closed(m) => AppError::Conflict(m),
             other => AppError::Internal(other.to_string()),
         }
     }
@@ -109,6 +110,7 @@ impl From<StorageError> for ApiError {
                 ApiError::new(StatusCode::CONFLICT, "revision", e.to_string())
             }
             StorageError::Invalid(m) => ApiError::new(StatusCode::UNPROCESSABLE_ENTITY, "", m),
+            StorageError::Closed(m) => ApiError::new(StatusCode::CONFLICT, "status", m),
             other => {
                 tracing::error!(cause = %other, "api request failed");
                 ApiError::new(StatusCode::INTERNAL_SERVER_ERROR, "", "internal error")

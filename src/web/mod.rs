@@ -7,9 +7,11 @@ pub mod fields;
 pub mod forms;
 pub mod html;
 pub mod limiter;
+pub mod live;
 pub mod plots;
 pub mod routes;
 pub mod scoring;
+pub mod snapshot;
 pub mod validate;
 
 use std::io::Write;
@@ -32,6 +34,7 @@ pub struct AppState {
     pub config: Arc<WebConfig>,
     pub login_limiter: Arc<limiter::LoginLimiter>,
     pub results: Arc<scoring::ResultsCache>,
+    pub reviews: Arc<live::ReviewHub>,
 }
 
 impl AppState {
@@ -41,6 +44,7 @@ impl AppState {
             config: Arc::new(config),
             login_limiter: Arc::default(),
             results: Arc::default(),
+            reviews: Arc::default(),
         }
     }
 }
@@ -65,6 +69,7 @@ pub fn app(state: AppState) -> Router {
         .merge(routes::compare::router())
         .merge(routes::trade::router())
         .merge(routes::api::router())
+        .merge(routes::reviews::router())
         .layer(from_fn_with_state(state.clone(), auth::csrf_guard))
         .layer(DefaultBodyLimit::max(auth::MAX_FORM_BYTES))
         .layer(header_layer(header::CONTENT_SECURITY_POLICY, CSP))

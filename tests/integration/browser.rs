@@ -17,7 +17,7 @@ use crate::helpers::{PASSWORD, artefact_dir, spawn_app};
 const CHROMIUM: &str = "/usr/bin/chromium";
 const DRIVER: &str = "/usr/bin/chromedriver";
 
-struct Driver(Child);
+pub struct Driver(Child);
 
 impl Drop for Driver {
     fn drop(&mut self) {
@@ -34,7 +34,7 @@ fn free_port() -> u16 {
         .port()
 }
 
-fn start_driver() -> (Driver, String) {
+pub fn start_driver() -> (Driver, String) {
     let port = free_port();
     let child = Command::new(DRIVER)
         .arg(format!("--port={port}"))
@@ -53,7 +53,7 @@ fn start_driver() -> (Driver, String) {
     (Driver(child), format!("http://127.0.0.1:{port}"))
 }
 
-fn capabilities(profile: &Path) -> fantoccini::wd::Capabilities {
+pub fn capabilities(profile: &Path) -> fantoccini::wd::Capabilities {
     let args = [
         "--headless=new",
         "--no-sandbox",
@@ -71,7 +71,7 @@ fn capabilities(profile: &Path) -> fantoccini::wd::Capabilities {
     caps.as_object().unwrap().clone()
 }
 
-fn browser_present() -> bool {
+pub fn browser_present() -> bool {
     let present = Path::new(CHROMIUM).exists() && Path::new(DRIVER).exists();
     if !present {
         let required = std::env::var("SHAFTLINE_REQUIRE_BROWSER").is_ok_and(|v| v == "1");

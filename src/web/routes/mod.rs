@@ -8,6 +8,7 @@ pub mod compare;
 pub mod exports;
 pub mod import;
 pub mod items;
+pub mod reviews;
 pub mod studies;
 pub mod study;
 pub mod system;
