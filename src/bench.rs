@@ -5,8 +5,9 @@ use std::time::{Duration, Instant};
 use rayon::prelude::*;
 
 use crate::engine::evaluate::{StudyContext, evaluate};
-use crate::engine::score_study;
 use crate::engine::study::{self, Candidate, SizingMode, Source, Study};
+use crate::engine::{robust, score_study, sweep};
+use std::sync::atomic::{AtomicBool, AtomicUsize};
 
 fn median(mut v: Vec<Duration>) -> Duration {
     v.sort();
@@ -46,7 +47,7 @@ pub fn a1_geometry(s: &Study, r_o: f64) -> Candidate {
     c
 }
 
-pub fn run(runs: usize, designs: usize) {
+pub fn run(runs: usize, designs: usize, sweep_designs: usize) {
     let s = demo();
     println!(
         "shaftline bench (engine {}, {} threads)",
@@ -86,6 +87,65 @@ pub fn run(runs: usize, designs: usize) {
         dt.as_secs_f64(),
         designs as f64 / dt.as_secs_f64()
     );
+    sweep_figures(&s, sweep_designs);
+    robustness_figures(&s);
+    match peak_memory_kib() {
+        Some(kib) => println!(
+            "peak resident memory of this process: {:.1} MiB",
+            kib as f64 / 1024.0
+        ),
+        None => println!("peak resident memory: not available on this system"),
+    }
+}
+
+/// The demo's A1 over R_o 0.10–0.20 m × λ 0.50–0.70 through the sweep path (rows
+/// streamed and dropped), whole-process designs/s.
+fn sweep_figures(s: &Study, designs: usize) {
+    let side = (designs as f64).sqrt().round().max(2.0) as usize;
+    let axes = vec![
+        sweep::parse_axis(&format!("outer_radius_m=0.10:0.20:{side}")).expect("axis"),
+        sweep::parse_axis(&format!("inner_outer_ratio=0.50:0.70:{side}")).expect("axis"),
+    ];
+    let name = find(s, "A1").name.clone();
+    let sw = sweep::Sweep::new(s, &name, axes).expect("sweep");
+    let (done, cancel) = (AtomicUsize::new(0), AtomicBool::new(false));
+    let t = Instant::now();
+    let mut feasible = 0usize;
+    let n = sweep::run(s, &sw, &done, &cancel, |_, _, r| {
+        feasible += r.feasible as usize
+    });
+    let dt = t.elapsed().as_secs_f64();
+    println!(
+        "sweep of A1, {side} × {side} = {n} designs (R_o × λ, OEI and mass closure): {dt:.3} s, {:.0} designs/s ({feasible} feasible)",
+        n as f64 / dt
+    );
+}
+
+fn robustness_figures(s: &Study) {
+    let mut x: u64 = 1;
+    let mut uniform = move || {
+        // SplitMix64 (Steele, Lea & Flood 2014), seeded: the bench is reproducible.
+        x = x.wrapping_add(0x9E37_79B9_7F4A_7C15);
+        let mut z = x;
+        z = (z ^ (z >> 30)).wrapping_mul(0xBF58_476D_1CE4_E5B9);
+        z = (z ^ (z >> 27)).wrapping_mul(0x94D0_49BB_1331_11EB);
+        ((z ^ (z >> 31)) >> 11) as f64 / (1u64 << 53) as f64
+    };
+    let t = Instant::now();
+    let r = robust::run(s, &robust::Uncertainty::default(), 1000, &mut uniform);
+    println!(
+        "robustness, {} samples × {} candidates: {:.3} s",
+        r.samples,
+        r.candidates.len(),
+        t.elapsed().as_secs_f64()
+    );
+}
+
+/// Peak resident set size from the kernel's process status (Linux), KiB.
+fn peak_memory_kib() -> Option<u64> {
+    let status = std::fs::read_to_string("/proc/self/status").ok()?;
+    let line = status.lines().find(|l| l.starts_with("VmHWM:"))?;
+    line.split_whitespace().nth(1)?.parse().ok()
 }
 
 fn ms(d: Duration) -> f64 {

@@ -37,6 +37,10 @@ pub enum Commands {
     },
     /// Score a study file headless (the same engine as the server).
     Score(crate::cli_engine::ScoreArgs),
+    /// Score a family of designs: vary one to three inputs of a sizing candidate.
+    Sweep(crate::cli_study::SweepArgs),
+    /// How often each candidate stays feasible, on the front and best under uncertainty.
+    Robustness(crate::cli_study::RobustnessArgs),
     /// Print the engine benchmark figures.
     Bench(crate::cli_engine::BenchArgs),
 }

@@ -36,19 +36,28 @@ pub struct BenchArgs {
     /// Geometry-mode axial designs scored in parallel for the throughput figure.
     #[arg(long, default_value_t = 20_000)]
     pub designs: usize,
+    /// Designs of the A1 sweep (R_o × λ grid, rounded to a square).
+    #[arg(long, default_value_t = 100_000)]
+    pub sweep_designs: usize,
 }
 
-/// Scores a study file. Bad input prints `error: <json path>: <message>` and exits 2.
-pub fn run_score(args: &ScoreArgs) -> anyhow::Result<()> {
-    let text = std::fs::read_to_string(&args.study)
-        .with_context(|| format!("reading {}", args.study.display()))?;
-    let study = match study::parse_study_str(&text) {
-        Ok(s) => s,
+/// Reads and validates a study file; bad input prints `error: <json path>: <message>`
+/// and exits 2.
+pub fn load_study(path: &std::path::Path) -> anyhow::Result<study::Study> {
+    let text =
+        std::fs::read_to_string(path).with_context(|| format!("reading {}", path.display()))?;
+    match study::parse_study_str(&text) {
+        Ok(s) => Ok(s),
         Err(e) => {
             eprintln!("error: {}: {}", e.path, e.message);
             std::process::exit(2);
         }
-    };
+    }
+}
+
+/// Scores a study file. Bad input prints `error: <json path>: <message>` and exits 2.
+pub fn run_score(args: &ScoreArgs) -> anyhow::Result<()> {
+    let study = load_study(&args.study)?;
     let results = engine::score_study(&study);
     let mut buf: Vec<u8> = Vec::new();
     match args.format {
@@ -69,6 +78,10 @@ pub fn run_score(args: &ScoreArgs) -> anyhow::Result<()> {
 
 /// Prints the engine benchmark figures.
 pub fn run_bench(args: &BenchArgs) -> anyhow::Result<()> {
-    crate::bench::run(args.runs.max(1), args.designs.max(1));
+    crate::bench::run(
+        args.runs.max(1),
+        args.designs.max(1),
+        args.sweep_designs.max(4),
+    );
     Ok(())
 }

@@ -12,6 +12,8 @@ pub mod bench;
 pub mod cli;
 /// Engine subcommands of the binary: `score` and `bench`.
 pub mod cli_engine;
+/// Engine subcommands over design families and uncertainty: `sweep`, `robustness`.
+pub mod cli_study;
 /// Typed settings from flags and environment.
 pub mod config;
 /// CSV exports of results over any writer (pure; used by the web and the CLI).

@@ -19,5 +19,7 @@ async fn main() -> anyhow::Result<()> {
         Commands::Token { db, action } => cli::run_token(&db, action).await,
         Commands::Score(args) => shaftline::cli_engine::run_score(&args),
         Commands::Bench(args) => shaftline::cli_engine::run_bench(&args),
+        Commands::Sweep(args) => shaftline::cli_study::run_sweep(&args),
+        Commands::Robustness(args) => shaftline::cli_study::run_robustness(&args),
     }
 }

@@ -33,4 +33,5 @@ mod flight;
 mod machines;
 mod materials;
 mod properties;
+mod sweeps;
 mod thermal;
