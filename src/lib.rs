@@ -16,6 +16,8 @@ pub mod cli_engine;
 pub mod config;
 /// CSV exports of results over any writer (pure; used by the web and the CLI).
 pub mod export;
+/// A bounded load test against a running server on loopback.
+pub mod loadtest;
 /// Password hashing and random tokens.
 pub mod secrets;
 /// First start: the admin account and the demo study.

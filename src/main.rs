@@ -19,5 +19,6 @@ async fn main() -> anyhow::Result<()> {
         Commands::Token { db, action } => cli::run_token(&db, action).await,
         Commands::Score(args) => shaftline::cli_engine::run_score(&args),
         Commands::Bench(args) => shaftline::cli_engine::run_bench(&args),
+        Commands::Backup { db, dest } => cli::run_backup(&db, &dest).await,
     }
 }
