@@ -1,4 +1,4 @@
-//! Subcommands of the `shaftline` binary: serving, accounts and API tokens.
+//! Subcommands of the `shaftline` binary: serving, accounts, API tokens and backups.
 
 use std::io::{BufRead, Write};
 
@@ -43,6 +43,13 @@ pub enum Commands {
     Robustness(crate::cli_study::RobustnessArgs),
     /// Print the engine benchmark figures.
     Bench(crate::cli_engine::BenchArgs),
+    /// Write a consistent copy of the database (safe while the server runs).
+    Backup {
+        #[command(flatten)]
+        db: DbArgs,
+        /// The new file to write; an existing file is never overwritten.
+        dest: std::path::PathBuf,
+    },
 }
 
 #[derive(Debug, Subcommand)]
@@ -116,6 +123,22 @@ pub async fn run_token(db: &DbArgs, action: TokenAction) -> anyhow::Result<()> {
     println!("API token for {name} (shown once; send it as 'Authorization: Bearer <token>'):");
     println!("{token}");
     std::io::stdout().flush()?;
+    Ok(())
+}
+
+/// `shaftline backup DEST.db`: copies the database named by `--db` into `dest`.
+pub async fn run_backup(db: &DbArgs, dest: &std::path::Path) -> anyhow::Result<()> {
+    let src = db.path_str()?;
+    if !std::path::Path::new(src).exists() {
+        bail!("backup: no database at '{src}' (set --db or SHAFTLINE_DB)");
+    }
+    let pool = storage::open_file(src)
+        .await
+        .context("opening the database")?;
+    let result = storage::backup::backup_to(&pool, dest).await;
+    pool.close().await;
+    result?;
+    println!("backed up {src} to {}", dest.display());
     Ok(())
 }
 

@@ -48,6 +48,8 @@ pub struct ServeArgs {
 pub struct WebConfig {
     pub secure_cookies: bool,
     pub session_lifetime_s: i64,
+    /// Longest a request may take, body upload included, before a 408.
+    pub request_timeout: std::time::Duration,
 }
 
 impl Default for WebConfig {
@@ -55,6 +57,7 @@ impl Default for WebConfig {
         WebConfig {
             secure_cookies: false,
             session_lifetime_s: 12 * 3600,
+            request_timeout: std::time::Duration::from_secs(30),
         }
     }
 }
@@ -64,6 +67,7 @@ impl From<&ServeArgs> for WebConfig {
         WebConfig {
             secure_cookies: a.secure_cookies,
             session_lifetime_s: i64::from(a.session_hours) * 3600,
+            ..WebConfig::default()
         }
     }
 }

@@ -18,6 +18,8 @@ pub mod cli_study;
 pub mod config;
 /// CSV exports of results over any writer (pure; used by the web and the CLI).
 pub mod export;
+/// A bounded load test against a running server on loopback.
+pub mod loadtest;
 /// Plots of results as SVG strings (pure; used by the pages).
 pub mod plots;
 /// Password hashing and random tokens.

@@ -21,5 +21,6 @@ async fn main() -> anyhow::Result<()> {
         Commands::Bench(args) => shaftline::cli_engine::run_bench(&args),
         Commands::Sweep(args) => shaftline::cli_study::run_sweep(&args),
         Commands::Robustness(args) => shaftline::cli_study::run_robustness(&args),
+        Commands::Backup { db, dest } => cli::run_backup(&db, &dest).await,
     }
 }

@@ -1,6 +1,10 @@
 //! Users, browser sessions and API tokens. Only hashes of secrets reach this module.
 
-use super::{Db, Result, StorageError, now_text, now_unix};
+use serde_json::{Value, json};
+use sqlx::AssertSqlSafe;
+
+use super::audit::{self, Change};
+use super::{Db, Result, StorageError, begin_write, now_text, now_unix};
 
 /// Access levels; each includes everything the ones before it may do.
 #[derive(Debug, Clone, Copy, PartialEq, Eq, PartialOrd, Ord, serde::Serialize)]
@@ -76,8 +80,23 @@ pub async fn count_users(db: &Db) -> Result<i64> {
     Ok(n)
 }
 
+/// The actor recorded for changes made outside the web (command line, first start).
+pub const SYSTEM_ACTOR: &str = "system";
+
 pub async fn insert_user(db: &Db, username: &str, password_hash: &str, role: Role) -> Result<i64> {
+    insert_user_as(db, username, password_hash, role, SYSTEM_ACTOR).await
+}
+
+/// Adds an account; `by` is who did it (audited, without the hash).
+pub async fn insert_user_as(
+    db: &Db,
+    username: &str,
+    password_hash: &str,
+    role: Role,
+    by: &str,
+) -> Result<i64> {
     let now = now_text();
+    let mut tx = begin_write(db).await?;
     let res = sqlx::query(
         "INSERT INTO user (username, password_hash, role, created_at, updated_at)
          VALUES (?, ?, ?, ?, ?)",
@@ -87,14 +106,36 @@ pub async fn insert_user(db: &Db, username: &str, password_hash: &str, role: Rol
     .bind(role.as_str())
     .bind(&now)
     .bind(&now)
-    .execute(db)
+    .execute(&mut *tx)
     .await;
-    match res {
-        Ok(done) => Ok(done.last_insert_rowid()),
-        Err(sqlx::Error::Database(e)) if e.is_unique_violation() => Err(StorageError::Invalid(
-            format!("username: '{username}' is already taken"),
-        )),
-        Err(e) => Err(e.into()),
+    let id = match res {
+        Ok(done) => done.last_insert_rowid(),
+        Err(sqlx::Error::Database(e)) if e.is_unique_violation() => {
+            return Err(StorageError::Invalid(format!(
+                "username: '{username}' is already taken"
+            )));
+        }
+        Err(e) => return Err(e.into()),
+    };
+    let after = json!({ "username": username, "role": role.as_str() });
+    audit::record(&mut tx, by, account_change(id, "create", None, Some(after))).await?;
+    tx.commit().await?;
+    Ok(id)
+}
+
+fn account_change(
+    id: i64,
+    action: &'static str,
+    before: Option<Value>,
+    after: Option<Value>,
+) -> Change {
+    Change {
+        study_id: None,
+        entity_kind: "account",
+        entity_id: id,
+        action,
+        before,
+        after,
     }
 }
 
@@ -115,36 +156,79 @@ pub async fn list_users(db: &Db) -> Result<Vec<UserRow>> {
     .await?)
 }
 
-async fn update_user_column(db: &Db, username: &str, sql: &'static str, value: &str) -> Result<()> {
-    let done = sqlx::query(sql)
+/// Sets one column of an account and audits the change (`shown` turns the old value
+/// into what the record says of the old and new values: never a password hash).
+async fn update_user_column(
+    db: &Db,
+    username: &str,
+    column: &'static str,
+    value: &str,
+    shown: impl FnOnce(&str) -> (Value, Value),
+    by: &str,
+) -> Result<i64> {
+    let mut tx = begin_write(db).await?;
+    let old_sql = format!("SELECT {column} FROM user WHERE username = ?");
+    let old: Option<(String,)> = sqlx::query_as(AssertSqlSafe(old_sql))
+        .bind(username)
+        .fetch_optional(&mut *tx)
+        .await?;
+    let (old,) = old.ok_or(StorageError::NotFound { what: "user" })?;
+    let shown = shown(&old);
+    let sql = format!(
+        "UPDATE user SET {column} = ?, updated_at = ?, revision = revision + 1
+         WHERE username = ? RETURNING id"
+    );
+    let row: Option<(i64,)> = sqlx::query_as(AssertSqlSafe(sql))
         .bind(value)
         .bind(now_text())
         .bind(username)
-        .execute(db)
+        .fetch_optional(&mut *tx)
         .await?;
-    if done.rows_affected() == 0 {
-        return Err(StorageError::NotFound { what: "user" });
-    }
-    Ok(())
+    let (id,) = row.ok_or(StorageError::NotFound { what: "user" })?;
+    let change = account_change(id, "update", Some(shown.0), Some(shown.1));
+    audit::record(&mut tx, by, change).await?;
+    tx.commit().await?;
+    Ok(id)
 }
 
 /// Replaces a password hash and signs the user out everywhere.
 pub async fn set_password_hash(db: &Db, username: &str, password_hash: &str) -> Result<()> {
-    let sql: &'static str =
-        "UPDATE user SET password_hash = ?, updated_at = ?, revision = revision + 1
-               WHERE username = ?";
-    update_user_column(db, username, sql, password_hash).await?;
-    sqlx::query("DELETE FROM session WHERE user_id = (SELECT id FROM user WHERE username = ?)")
-        .bind(username)
+    set_password_hash_as(db, username, password_hash, SYSTEM_ACTOR).await
+}
+
+pub async fn set_password_hash_as(
+    db: &Db,
+    username: &str,
+    password_hash: &str,
+    by: &str,
+) -> Result<()> {
+    let shown = |_: &str| {
+        (
+            json!({ "username": username, "password": "(previous)" }),
+            json!({ "username": username, "password": "(changed)" }),
+        )
+    };
+    let id = update_user_column(db, username, "password_hash", password_hash, shown, by).await?;
+    sqlx::query("DELETE FROM session WHERE user_id = ?")
+        .bind(id)
         .execute(db)
         .await?;
     Ok(())
 }
 
 pub async fn set_role(db: &Db, username: &str, role: Role) -> Result<()> {
-    let sql = "UPDATE user SET role = ?, updated_at = ?, revision = revision + 1
-               WHERE username = ?";
-    update_user_column(db, username, sql, role.as_str()).await
+    set_role_as(db, username, role, SYSTEM_ACTOR).await
+}
+
+pub async fn set_role_as(db: &Db, username: &str, role: Role, by: &str) -> Result<()> {
+    let shown = |old: &str| {
+        (
+            json!({ "username": username, "role": old }),
+            json!({ "username": username, "role": role.as_str() }),
+        )
+    };
+    update_user_column(db, username, "role", role.as_str(), shown, by).await?;
+    Ok(())
 }
 
 pub async fn insert_session(

@@ -1,8 +1,9 @@
 //! Segment and candidate rows of a study: insert, update, reorder, delete. Every write
 //! checks the row's revision and bumps the study's, in one transaction.
 
+use super::audit::{self, Change};
 use super::studies::{Item, ItemRow, bump_study, get_item, study_conflict};
-use super::{Db, Result, StorageError, now_text};
+use super::{Db, Result, StorageError, begin_write, now_text};
 use serde_json::Value;
 use sqlx::AssertSqlSafe;
 
@@ -11,6 +12,18 @@ use sqlx::AssertSqlSafe;
 pub enum MoveDirection {
     Up,
     Down,
+}
+
+/// The audit record of a change to one row.
+fn row_change(item: Item, study_id: i64, id: i64, action: &'static str) -> Change {
+    Change {
+        study_id: Some(study_id),
+        entity_kind: item.table(),
+        entity_id: id,
+        action,
+        before: None,
+        after: None,
+    }
 }
 
 async fn insert_row(
@@ -25,7 +38,7 @@ async fn insert_row(
          VALUES (?, (SELECT COALESCE(MAX(position) + 1, 0) FROM {t} WHERE study_id = ?), ?, ?, ?)",
         t = item.table()
     );
-    Ok(sqlx::query(AssertSqlSafe(sql))
+    let id = sqlx::query(AssertSqlSafe(sql))
         .bind(study_id)
         .bind(study_id)
         .bind(body.to_string())
@@ -33,7 +46,13 @@ async fn insert_row(
         .bind(by)
         .execute(&mut **tx)
         .await?
-        .last_insert_rowid())
+        .last_insert_rowid();
+    let change = Change {
+        after: Some(body.clone()),
+        ..row_change(item, study_id, id, "create")
+    };
+    audit::record(tx, by, change).await?;
+    Ok(id)
 }
 
 /// Appends a row at the end of the study's list. Returns the new row's id.
@@ -44,7 +63,7 @@ pub async fn insert_item(
     body: &Value,
     by: &str,
 ) -> Result<i64> {
-    let mut tx = db.begin().await?;
+    let mut tx = begin_write(db).await?;
     bump_study(&mut tx, study_id, by).await?;
     let id = insert_row(&mut tx, item, study_id, body, by).await?;
     tx.commit().await?;
@@ -62,7 +81,7 @@ pub async fn append_items(
     bodies: &[Value],
     by: &str,
 ) -> Result<i64> {
-    let mut tx = db.begin().await?;
+    let mut tx = begin_write(db).await?;
     let current: Option<(i64,)> = sqlx::query_as("SELECT revision FROM study WHERE id = ?")
         .bind(study_id)
         .fetch_optional(&mut *tx)
@@ -103,7 +122,8 @@ pub async fn update_item(
     body: &Value,
     by: &str,
 ) -> Result<i64> {
-    let mut tx = db.begin().await?;
+    let mut tx = begin_write(db).await?;
+    let before = audit::item_body(&mut tx, item, study_id, id).await?;
     let sql = format!(
         "UPDATE {} SET body = ?, revision = revision + 1, updated_at = ?, updated_by = ?
          WHERE study_id = ? AND id = ? AND revision = ? RETURNING revision",
@@ -122,6 +142,12 @@ pub async fn update_item(
         drop(tx);
         return Err(item_conflict(db, item, study_id, id).await);
     };
+    let change = Change {
+        before,
+        after: Some(body.clone()),
+        ..row_change(item, study_id, id, "update")
+    };
+    audit::record(&mut tx, by, change).await?;
     bump_study(&mut tx, study_id, by).await?;
     tx.commit().await?;
     Ok(rev)
@@ -136,7 +162,8 @@ pub async fn delete_item(
     revision: i64,
     by: &str,
 ) -> Result<()> {
-    let mut tx = db.begin().await?;
+    let mut tx = begin_write(db).await?;
+    let before = audit::item_body(&mut tx, item, study_id, id).await?;
     let sql = format!(
         "DELETE FROM {} WHERE study_id = ? AND id = ? AND revision = ?",
         item.table()
@@ -151,6 +178,11 @@ pub async fn delete_item(
         drop(tx);
         return Err(item_conflict(db, item, study_id, id).await);
     }
+    let change = Change {
+        before,
+        ..row_change(item, study_id, id, "delete")
+    };
+    audit::record(&mut tx, by, change).await?;
     bump_study(&mut tx, study_id, by).await?;
     tx.commit().await?;
     Ok(())
@@ -165,7 +197,7 @@ pub async fn move_item(
     dir: MoveDirection,
     by: &str,
 ) -> Result<()> {
-    let mut tx = db.begin().await?;
+    let mut tx = begin_write(db).await?;
     let list_sql = format!(
         "SELECT id, position, body, revision, updated_at, updated_by FROM {}
          WHERE study_id = ? ORDER BY position, id",
@@ -197,6 +229,12 @@ pub async fn move_item(
             .execute(&mut *tx)
             .await?;
     }
+    let change = Change {
+        before: Some(serde_json::json!({ "position": at })),
+        after: Some(serde_json::json!({ "position": other })),
+        ..row_change(item, study_id, id, "move")
+    };
+    audit::record(&mut tx, by, change).await?;
     bump_study(&mut tx, study_id, by).await?;
     tx.commit().await?;
     Ok(())

@@ -2,6 +2,8 @@
 //! Rows are plain structs; JSON columns hold study-format objects validated upstream.
 
 pub mod accounts;
+pub mod audit;
+pub mod backup;
 mod items;
 pub mod reviews;
 pub mod scoring;
@@ -68,6 +70,13 @@ pub async fn open_memory() -> Result<Db> {
         .await?;
     migrate(&pool).await?;
     Ok(pool)
+}
+
+/// A write transaction that takes the write lock at once (`BEGIN IMMEDIATE`), so
+/// reads inside it (the revision check, the audit's before-values) are never
+/// invalidated by a writer that commits in between.
+pub async fn begin_write(db: &Db) -> Result<sqlx::Transaction<'static, sqlx::Sqlite>> {
+    Ok(db.begin_with("BEGIN IMMEDIATE").await?)
 }
 
 async fn migrate(pool: &Db) -> Result<()> {

@@ -4,7 +4,8 @@
 use serde_json::{Map, Value};
 use sqlx::{Sqlite, Transaction};
 
-use super::{Db, Result, StorageError, now_text};
+use super::audit::{self, study_change};
+use super::{Db, Result, StorageError, begin_write, now_text};
 use sqlx::AssertSqlSafe;
 
 /// A study split into the pieces the tables hold; the inverse of the study file.
@@ -138,7 +139,7 @@ fn text(v: &Option<Value>) -> Option<String> {
 }
 
 pub async fn insert_study(db: &Db, doc: &StudyDoc, by: &str) -> Result<i64> {
-    let mut tx = db.begin().await?;
+    let mut tx = begin_write(db).await?;
     let now = now_text();
     let id = sqlx::query(
         "INSERT INTO study (name, notes, aircraft, installation, integration, scoring,
@@ -158,6 +159,9 @@ pub async fn insert_study(db: &Db, doc: &StudyDoc, by: &str) -> Result<i64> {
     .await?
     .last_insert_rowid();
     insert_items(&mut tx, id, doc, by).await?;
+    let after = audit::study_snapshot(&mut tx, id).await?;
+    let change = study_change(id, "study", "create", None, Some(after));
+    audit::record(&mut tx, by, change).await?;
     tx.commit().await?;
     Ok(id)
 }
@@ -302,7 +306,8 @@ pub async fn update_study_header(
     doc: &StudyDoc,
     by: &str,
 ) -> Result<i64> {
-    let mut tx = db.begin().await?;
+    let mut tx = begin_write(db).await?;
+    let before = audit::study_header(&mut tx, id).await?;
     let done = sqlx::query(
         "UPDATE study SET name = ?, notes = ?, aircraft = ?, installation = ?
          WHERE id = ? AND revision = ?",
@@ -320,6 +325,13 @@ pub async fn update_study_header(
         return Err(study_conflict(db, id).await);
     }
     let rev = bump_study(&mut tx, id, by).await?;
+    let after = audit::study_header(&mut tx, id).await?;
+    audit::record(
+        &mut tx,
+        by,
+        study_change(id, "study", "update", before, after),
+    )
+    .await?;
     tx.commit().await?;
     Ok(rev)
 }
@@ -332,7 +344,8 @@ pub async fn replace_study(
     doc: &StudyDoc,
     by: &str,
 ) -> Result<i64> {
-    let mut tx = db.begin().await?;
+    let mut tx = begin_write(db).await?;
+    let before = audit::study_snapshot(&mut tx, id).await?;
     let done = sqlx::query(
         "UPDATE study SET name = ?, notes = ?, aircraft = ?, installation = ?,
                           integration = ?, scoring = ?
@@ -361,8 +374,33 @@ pub async fn replace_study(
     }
     insert_items(&mut tx, id, doc, by).await?;
     let rev = bump_study(&mut tx, id, by).await?;
+    record_replace(&mut tx, id, before, by).await?;
     tx.commit().await?;
     Ok(rev)
+}
+
+/// Audits a full replace, and the scoring weights apart when they changed.
+async fn record_replace(
+    tx: &mut Transaction<'_, Sqlite>,
+    id: i64,
+    before: Value,
+    by: &str,
+) -> Result<()> {
+    let after = audit::study_snapshot(tx, id).await?;
+    let (old_w, new_w) = (
+        before.get("scoring").cloned(),
+        after.get("scoring").cloned(),
+    );
+    audit::record(
+        tx,
+        by,
+        study_change(id, "study", "replace", Some(before), Some(after)),
+    )
+    .await?;
+    if old_w != new_w {
+        audit::record(tx, by, study_change(id, "weights", "update", old_w, new_w)).await?;
+    }
+    Ok(())
 }
 
 pub use super::items::{

@@ -198,6 +198,19 @@ fn form_token(body: &[u8]) -> Option<String> {
         .map(|(_, v)| v)
 }
 
+/// The 413 answer: JSON under `/api/`, a plain page elsewhere.
+pub fn too_large(path: &str) -> Response {
+    let msg = format!(
+        "request body too large: the limit is {} MiB",
+        MAX_FORM_BYTES / (1024 * 1024)
+    );
+    if path.starts_with("/api/") {
+        ApiError::new(StatusCode::PAYLOAD_TOO_LARGE, "body", msg).into_response()
+    } else {
+        plain_page(StatusCode::PAYLOAD_TOO_LARGE, &msg)
+    }
+}
+
 fn forbidden(path: &str) -> Response {
     let msg = "missing or wrong anti-forgery token (csrf_token); reload the page and try again";
     if path.starts_with("/api/") {
@@ -226,7 +239,7 @@ pub async fn csrf_guard(State(state): State<AppState>, req: Request, next: Next)
     };
     let (parts, body) = req.into_parts();
     let Ok(bytes) = to_bytes(body, MAX_FORM_BYTES).await else {
-        return (StatusCode::PAYLOAD_TOO_LARGE, "request body too large").into_response();
+        return too_large(&path);
     };
     let given = match parts
         .headers

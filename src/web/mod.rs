@@ -20,9 +20,11 @@ use std::sync::Arc;
 use anyhow::Context;
 use axum::Router;
 use axum::extract::DefaultBodyLimit;
-use axum::http::{HeaderName, HeaderValue, header};
+use axum::http::{HeaderName, HeaderValue, StatusCode, header};
 use axum::middleware::from_fn_with_state;
 use tower_http::set_header::SetResponseHeaderLayer;
+use tower_http::timeout::TimeoutLayer;
+use tower_http::trace::TraceLayer;
 
 use crate::config::{ServeArgs, WebConfig};
 use crate::storage::{self, Db};
@@ -56,9 +58,9 @@ fn header_layer(name: HeaderName, value: &'static str) -> SetResponseHeaderLayer
     SetResponseHeaderLayer::if_not_present(name, HeaderValue::from_static(value))
 }
 
-/// The whole application, ready for `axum::serve` or `oneshot` in tests.
-pub fn app(state: AppState) -> Router {
-    Router::new()
+/// Every feature's routes, merged; `app` serves them and tests list them.
+pub fn routes() -> routes::Routes {
+    routes::Routes::new()
         .merge(routes::system::router())
         .merge(routes::accounts::router())
         .merge(routes::studies::router())
@@ -70,8 +72,25 @@ pub fn app(state: AppState) -> Router {
         .merge(routes::trade::router())
         .merge(routes::api::router())
         .merge(routes::reviews::router())
+        .merge(routes::history::router())
+}
+
+/// The path pattern of every route the application serves.
+pub fn route_paths() -> Vec<&'static str> {
+    routes().paths().to_vec()
+}
+
+/// The whole application, ready for `axum::serve` or `oneshot` in tests.
+pub fn app(state: AppState) -> Router {
+    routes()
+        .into_router()
         .layer(from_fn_with_state(state.clone(), auth::csrf_guard))
         .layer(DefaultBodyLimit::max(auth::MAX_FORM_BYTES))
+        .layer(TimeoutLayer::with_status_code(
+            StatusCode::REQUEST_TIMEOUT,
+            state.config.request_timeout,
+        ))
+        .layer(TraceLayer::new_for_http())
         .layer(header_layer(header::CONTENT_SECURITY_POLICY, CSP))
         .layer(header_layer(header::X_CONTENT_TYPE_OPTIONS, "nosniff"))
         .layer(header_layer(header::X_FRAME_OPTIONS, "DENY"))
@@ -101,7 +120,8 @@ pub async fn serve(args: ServeArgs) -> anyhow::Result<()> {
     println!("Shaftline listening on http://{addr}/");
     std::io::stdout().flush()?;
     let state = AppState::new(db.clone(), WebConfig::from(&args));
-    axum::serve(listener, app(state))
+    let service = app(state).into_make_service_with_connect_info::<std::net::SocketAddr>();
+    axum::serve(listener, service)
         .with_graceful_shutdown(shutdown)
         .await
         .context("serving")?;

@@ -284,6 +284,13 @@ impl TestApp {
             .await
     }
 
+    /// A study's change history: the page, or `csv = true` for `history.csv`.
+    pub async fn get_history(&self, s: &Session, id: i64, csv: bool) -> Resp {
+        let suffix = if csv { ".csv" } else { "" };
+        self.get(&format!("/studies/{id}/history{suffix}"), Some(s))
+            .await
+    }
+
     // ---- rows ("segments" or "candidates") ----
 
     pub async fn get_new_row_form(&self, s: &Session, id: i64, list: &str, query: &str) -> Resp {

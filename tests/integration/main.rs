@@ -2,13 +2,20 @@
 
 mod accounts;
 mod api;
+mod audit;
+mod authz;
+mod backup;
+mod binary;
 mod browser;
 mod cli;
 mod compare;
+mod crash;
 mod exports;
 mod forms;
+mod hardening;
 mod helpers;
 mod import;
+mod load;
 mod plots;
 mod review_helpers;
 mod reviews;
@@ -16,6 +23,7 @@ mod reviews_browser;
 mod reviews_diff;
 mod reviews_live;
 mod rows;
+mod secrets_log;
 mod storage;
 mod studies;
 mod trade;

@@ -1,9 +1,11 @@
 //! Sign-in, sign-out and the admin's account page.
 
+use crate::web::routes::Routes;
 use askama::Template;
-use axum::Router;
-use axum::extract::{Form, Path, Query, State};
-use axum::http::{HeaderMap, header};
+use std::net::{IpAddr, SocketAddr};
+
+use axum::extract::{ConnectInfo, Form, Path, Query, State};
+use axum::http::{Extensions, HeaderMap, StatusCode, header};
 use axum::response::{AppendHeaders, IntoResponse, Redirect, Response};
 use axum::routing::{get, post};
 use serde::Deserialize;
@@ -15,8 +17,8 @@ use crate::web::auth::{Admin, LOGIN_COOKIE, SESSION_COOKIE, cookie, set_cookie};
 use crate::web::error::AppError;
 use crate::web::html::{HtmlTemplate, Nav};
 
-pub fn router() -> Router<AppState> {
-    Router::new()
+pub fn router() -> Routes {
+    Routes::new()
         .route("/login", get(show_login).post(login))
         .route("/logout", post(logout))
         .route("/admin/users", get(list_users).post(add_user))
@@ -106,24 +108,28 @@ async fn check_login(state: &AppState, form: &LoginForm) -> Result<Option<UserRo
     Ok(ok.then_some(user))
 }
 
+/// The client's address, when the server was started with connection info.
+fn client_addr(ext: &Extensions) -> Option<IpAddr> {
+    ext.get::<ConnectInfo<SocketAddr>>().map(|c| c.0.ip())
+}
+
 async fn login(
     State(state): State<AppState>,
     headers: HeaderMap,
+    ext: Extensions,
     Form(form): Form<LoginForm>,
 ) -> Result<Response, AppError> {
     let next = safe_next(form.next.as_deref());
-    if !state.login_limiter.allowed(&form.username) {
-        let msg = "Too many failed sign-ins for this username; wait five minutes and try again.";
-        return Ok(login_page(
-            &state,
-            &headers,
-            next,
-            form.username,
-            Some(msg.into()),
-        ));
+    let addr = client_addr(&ext);
+    if let Err(refusal) = state.login_limiter.check(&form.username, addr) {
+        let msg = refusal.message().to_string();
+        let page = login_page(&state, &headers, next, form.username, Some(msg));
+        return Ok((StatusCode::TOO_MANY_REQUESTS, page).into_response());
     }
     let Some(user) = check_login(&state, &form).await? else {
-        state.login_limiter.record_failure(&form.username);
+        state
+            .login_limiter
+            .record_failure_from(&form.username, addr);
         let msg = "Unknown username or wrong password.";
         return Ok(login_page(
             &state,
@@ -223,7 +229,7 @@ async fn add_user(
         .await
         .map_err(|e| AppError::Internal(e.to_string()))?
         .map_err(AppError::Internal)?;
-    match accounts::insert_user(&state.db, &form.username, &hash, role).await {
+    match accounts::insert_user_as(&state.db, &form.username, &hash, role, &user.username).await {
         Ok(_) => Ok(Redirect::to("/admin/users").into_response()),
         Err(crate::storage::StorageError::Invalid(m)) => {
             page.err_username = Some(m);
@@ -250,6 +256,6 @@ async fn set_role(
             "role: you cannot remove your own admin role".into(),
         ));
     }
-    accounts::set_role(&state.db, &name, role).await?;
+    accounts::set_role_as(&state.db, &name, role, &user.username).await?;
     Ok(Redirect::to("/admin/users").into_response())
 }

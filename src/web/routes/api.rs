@@ -2,12 +2,14 @@
 //! Stable: ids are opaque strings, studies are study files, results are result files,
 //! and every 4xx body is `{"error": {"path", "message"}}`.
 
+use crate::web::routes::Routes;
+use axum::Json;
 use axum::body::Bytes;
+use axum::extract::rejection::BytesRejection;
 use axum::extract::{Path, Query, State};
 use axum::http::{HeaderMap, StatusCode, header};
 use axum::response::{IntoResponse, Response};
 use axum::routing::get;
-use axum::{Json, Router};
 use serde::Deserialize;
 use serde_json::{Value, json};
 
@@ -18,8 +20,8 @@ use crate::web::auth::{ApiEditor, ApiViewer};
 use crate::web::error::ApiError;
 use crate::web::validate::validate_doc;
 
-pub fn router() -> Router<AppState> {
-    Router::new()
+pub fn router() -> Routes {
+    Routes::new()
         .route("/api/studies", get(list_studies).post(create_study))
         .route("/api/studies/{id}", get(get_study).put(replace_study))
         .route("/api/studies/{id}/results", get(get_results))
@@ -37,6 +39,20 @@ fn study_id(raw: &str) -> Result<i64, ApiError> {
 
 fn etag(revision: i64) -> (header::HeaderName, String) {
     (header::ETAG, format!("\"{revision}\""))
+}
+
+/// The raw body, or the JSON 413 when it is over the upload limit.
+fn body_bytes(body: Result<Bytes, BytesRejection>) -> Result<Bytes, ApiError> {
+    body.map_err(|e| {
+        let status = e.status();
+        if status == StatusCode::PAYLOAD_TOO_LARGE {
+            let mib = crate::web::auth::MAX_FORM_BYTES / (1024 * 1024);
+            let msg = format!("study upload too large: the limit is {mib} MiB");
+            ApiError::new(status, "body", msg)
+        } else {
+            ApiError::new(status, "body", e.body_text())
+        }
+    })
 }
 
 /// A request body as a validated study and its storable document.
@@ -86,9 +102,9 @@ async fn list_studies(
 async fn create_study(
     State(state): State<AppState>,
     ApiEditor(user): ApiEditor,
-    body: Bytes,
+    body: Result<Bytes, BytesRejection>,
 ) -> Result<Response, ApiError> {
-    let (_, doc) = parse_body(&body)?;
+    let (_, doc) = parse_body(&body_bytes(body)?)?;
     let id = studies::insert_study(&state.db, &doc, &user.username).await?;
     let row = studies::get_study(&state.db, id).await?;
     let location = (header::LOCATION, format!("/api/studies/{id}"));
@@ -141,12 +157,12 @@ async fn replace_study(
     ApiEditor(user): ApiEditor,
     Path(raw): Path<String>,
     headers: HeaderMap,
-    body: Bytes,
+    body: Result<Bytes, BytesRejection>,
 ) -> Result<Response, ApiError> {
     let id = study_id(&raw)?;
     studies::get_study(&state.db, id).await?;
     let revision = if_match(&headers)?;
-    let (_, doc) = parse_body(&body)?;
+    let (_, doc) = parse_body(&body_bytes(body)?)?;
     let new_rev = studies::replace_study(&state.db, id, revision, &doc, &user.username).await?;
     Ok((
         [etag(new_rev)],

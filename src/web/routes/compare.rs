@@ -2,8 +2,8 @@
 //! unit, the best value marked (by the metric's direction, among feasible candidates)
 //! and each value's difference from a chosen baseline candidate.
 
+use crate::web::routes::Routes;
 use askama::Template;
-use axum::Router;
 use axum::extract::{Path, RawQuery, State};
 use axum::response::{IntoResponse, Response};
 use axum::routing::get;
@@ -19,8 +19,8 @@ use crate::web::error::AppError;
 use crate::web::html::{HtmlTemplate, Nav};
 use crate::web::plots::{Figure, compare_figure};
 
-pub fn router() -> Router<AppState> {
-    Router::new().route("/studies/{id}/compare", get(show_compare))
+pub fn router() -> Routes {
+    Routes::new().route("/studies/{id}/compare", get(show_compare))
 }
 
 /// One candidate of the study, for the selection form and the column heads.

@@ -1,7 +1,7 @@
 //! Downloads of a study: `summary.csv`, `segments.csv`, `oei_segments.csv` (written by
 //! `crate::export` from the engine's results) and `study.json` (the study file).
 
-use axum::Router;
+use crate::web::routes::Routes;
 use axum::extract::{Path, State};
 use axum::http::header;
 use axum::response::{IntoResponse, Response};
@@ -14,8 +14,8 @@ use crate::web::AppState;
 use crate::web::auth::Viewer;
 use crate::web::error::AppError;
 
-pub fn router() -> Router<AppState> {
-    Router::new()
+pub fn router() -> Routes {
+    Routes::new()
         .route("/studies/{id}/summary.csv", get(summary_csv))
         .route("/studies/{id}/segments.csv", get(segments_csv))
         .route("/studies/{id}/oei_segments.csv", get(oei_segments_csv))

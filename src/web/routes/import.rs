@@ -2,8 +2,8 @@
 //! and the all-or-nothing import (every row validated by the engine, then the whole
 //! study, then all rows stored in one transaction against the study's revision).
 
+use crate::web::routes::Routes;
 use askama::Template;
-use axum::Router;
 use axum::extract::{Form, Path, State};
 use axum::response::{IntoResponse, Redirect, Response};
 use axum::routing::get;
@@ -20,8 +20,8 @@ use crate::web::error::AppError;
 use crate::web::html::{HtmlTemplate, Nav};
 use crate::web::validate::validate_doc;
 
-pub fn router() -> Router<AppState> {
-    Router::new()
+pub fn router() -> Routes {
+    Routes::new()
         .route("/candidate-template.csv", get(template_csv))
         .route(
             "/studies/{id}/candidates/import",

@@ -1,7 +1,7 @@
 //! The studies list: new study, import a study file, duplicate.
 
+use crate::web::routes::Routes;
 use askama::Template;
-use axum::Router;
 use axum::extract::{Form, Path, State};
 use axum::response::{IntoResponse, Redirect, Response};
 use axum::routing::{get, post};
@@ -18,8 +18,8 @@ use crate::web::forms::{self, Errors, FieldView, Values};
 use crate::web::html::{HtmlTemplate, Nav};
 use crate::web::validate::validate_doc;
 
-pub fn router() -> Router<AppState> {
-    Router::new()
+pub fn router() -> Routes {
+    Routes::new()
         .route("/", get(list_studies))
         .route("/studies", post(create_study))
         .route("/studies/import", post(import_study))

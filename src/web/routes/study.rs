@@ -1,8 +1,8 @@
 //! The study page: aircraft form, mission segment table (with each row's computed
 //! duration and power) and the candidate table with key results.
 
+use crate::web::routes::Routes;
 use askama::Template;
-use axum::Router;
 use axum::extract::{Form, Path, State};
 use axum::response::{IntoResponse, Redirect, Response};
 use axum::routing::get;
@@ -21,8 +21,8 @@ use crate::web::forms::{self, Errors, FieldView, Values};
 use crate::web::html::{HtmlTemplate, Nav};
 use crate::web::validate::validate_doc;
 
-pub fn router() -> Router<AppState> {
-    Router::new().route("/studies/{id}", get(show_study).post(update_study))
+pub fn router() -> Routes {
+    Routes::new().route("/studies/{id}", get(show_study).post(update_study))
 }
 
 pub struct SegmentLine {

@@ -1,16 +1,14 @@
 //! Liveness check and the embedded stylesheet (no CDN, no web fonts).
 
-use axum::Router;
+use crate::web::routes::Routes;
 use axum::http::header;
 use axum::response::IntoResponse;
 use axum::routing::get;
 
-use crate::web::AppState;
-
 const APP_CSS: &str = include_str!("../../../static/app.css");
 
-pub fn router() -> Router<AppState> {
-    Router::new()
+pub fn router() -> Routes {
+    Routes::new()
         .route("/health", get(health))
         .route("/static/app.css", get(stylesheet))
 }

@@ -2,8 +2,8 @@
 //! study's first two objectives), the trade matrix with the weights an editor can save
 //! on the study, and the ranking table.
 
+use crate::web::routes::Routes;
 use askama::Template;
-use axum::Router;
 use axum::extract::{Form, Path, Query, State};
 use axum::response::{IntoResponse, Redirect, Response};
 use axum::routing::{get, post};
@@ -23,8 +23,8 @@ use crate::web::auth::{Editor, Viewer};
 use crate::web::error::AppError;
 use crate::web::html::{HtmlTemplate, Nav};
 
-pub fn router() -> Router<AppState> {
-    Router::new()
+pub fn router() -> Routes {
+    Routes::new()
         .route("/studies/{id}/trade", get(show_trade))
         .route("/studies/{id}/trade/weights", post(save_weights))
 }

@@ -7,8 +7,8 @@
 mod candidates;
 mod segments;
 
+use crate::web::routes::Routes;
 use askama::Template;
-use axum::Router;
 use axum::response::{IntoResponse, Redirect, Response};
 use axum::routing::{get, post};
 use serde::Deserialize;
@@ -24,8 +24,8 @@ use crate::web::forms::{self, Errors, Field, FieldView, Values};
 use crate::web::html::{HtmlTemplate, Nav};
 use crate::web::validate::validate_doc;
 
-pub fn router() -> Router<AppState> {
-    Router::new()
+pub fn router() -> Routes {
+    Routes::new()
         .route("/studies/{id}/segments/new", get(segments::new_segment))
         .route("/studies/{id}/segments", post(segments::create_segment))
         .route(
@@ -196,9 +196,15 @@ pub(super) async fn submit(
     match outcome {
         Ok(()) => Ok(Redirect::to(&format!("/studies/{}", t.study_id)).into_response()),
         Err((errors, general)) => {
+            // A refusal with no field marked is a stale revision: answer 409.
+            let stale = errors.is_empty() && general.is_some();
             let general =
                 general.or_else(|| Some("Nothing was saved: see the marked fields.".into()));
-            form_page(state, user, &t, &values, &errors, general).await
+            let mut page = form_page(state, user, &t, &values, &errors, general).await?;
+            if stale {
+                *page.status_mut() = axum::http::StatusCode::CONFLICT;
+            }
+            Ok(page)
         }
     }
 }

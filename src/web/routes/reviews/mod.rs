@@ -8,7 +8,7 @@ mod events;
 mod exports;
 mod pages;
 
-use axum::Router;
+use crate::web::routes::Routes;
 use axum::http::header;
 use axum::response::IntoResponse;
 use axum::routing::{get, post};
@@ -29,8 +29,8 @@ const REVIEW_JS: &str = include_str!("../../../../static/review.js");
 /// Most participants named when a review starts.
 const MAX_PARTICIPANTS: usize = 50;
 
-pub fn router() -> Router<AppState> {
-    Router::new()
+pub fn router() -> Routes {
+    Routes::new()
         .route(
             "/studies/{id}/reviews",
             get(pages::list_reviews).post(actions::start_review),
