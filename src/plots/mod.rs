@@ -3,6 +3,7 @@
 
 pub mod draw;
 pub mod efficiency;
+pub mod family;
 pub mod labels;
 pub mod losses;
 pub mod pareto;

@@ -12,6 +12,7 @@ pub mod plots;
 pub mod routes;
 pub mod scoring;
 pub mod snapshot;
+pub mod sweeps;
 pub mod validate;
 
 use std::io::Write;
@@ -35,6 +36,7 @@ pub struct AppState {
     pub login_limiter: Arc<limiter::LoginLimiter>,
     pub results: Arc<scoring::ResultsCache>,
     pub reviews: Arc<live::ReviewHub>,
+    pub sweeps: Arc<sweeps::SweepJobs>,
 }
 
 impl AppState {
@@ -45,6 +47,7 @@ impl AppState {
             login_limiter: Arc::default(),
             results: Arc::default(),
             reviews: Arc::default(),
+            sweeps: Arc::default(),
         }
     }
 }
@@ -70,6 +73,7 @@ pub fn app(state: AppState) -> Router {
         .merge(routes::trade::router())
         .merge(routes::api::router())
         .merge(routes::reviews::router())
+        .merge(routes::sweeps::router())
         .layer(from_fn_with_state(state.clone(), auth::csrf_guard))
         .layer(DefaultBodyLimit::max(auth::MAX_FORM_BYTES))
         .layer(header_layer(header::CONTENT_SECURITY_POLICY, CSP))

@@ -18,4 +18,6 @@ mod reviews_live;
 mod rows;
 mod storage;
 mod studies;
+mod sweep_helpers;
+mod sweeps;
 mod trade;

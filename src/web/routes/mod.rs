@@ -11,5 +11,6 @@ pub mod items;
 pub mod reviews;
 pub mod studies;
 pub mod study;
+pub mod sweeps;
 pub mod system;
 pub mod trade;
