@@ -7,6 +7,7 @@ pub mod family;
 pub mod labels;
 pub mod losses;
 pub mod pareto;
+pub mod robustness;
 pub mod temperature;
 pub mod torque_speed;
 

@@ -74,6 +74,7 @@ pub fn app(state: AppState) -> Router {
         .merge(routes::api::router())
         .merge(routes::reviews::router())
         .merge(routes::sweeps::router())
+        .merge(routes::robustness::router())
         .layer(from_fn_with_state(state.clone(), auth::csrf_guard))
         .layer(DefaultBodyLimit::max(auth::MAX_FORM_BYTES))
         .layer(header_layer(header::CONTENT_SECURITY_POLICY, CSP))

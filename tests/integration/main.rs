@@ -15,6 +15,7 @@ mod reviews;
 mod reviews_browser;
 mod reviews_diff;
 mod reviews_live;
+mod robustness;
 mod rows;
 mod storage;
 mod studies;

@@ -102,4 +102,14 @@ impl TestApp {
             .await
             .expect("the sweep stops within the bounded wait")
     }
+
+    pub async fn get_robustness(&self, s: &Session, study: i64, query: &str) -> Resp {
+        self.get(&format!("/studies/{study}/robustness{query}"), Some(s))
+            .await
+    }
+
+    pub async fn get_robustness_csv(&self, s: &Session, study: i64, query: &str) -> Resp {
+        self.get(&format!("/studies/{study}/robustness.csv{query}"), Some(s))
+            .await
+    }
 }

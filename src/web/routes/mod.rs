@@ -9,6 +9,7 @@ pub mod exports;
 pub mod import;
 pub mod items;
 pub mod reviews;
+pub mod robustness;
 pub mod studies;
 pub mod study;
 pub mod sweeps;
