@@ -3,9 +3,11 @@
 
 pub mod draw;
 pub mod efficiency;
+pub mod family;
 pub mod labels;
 pub mod losses;
 pub mod pareto;
+pub mod robustness;
 pub mod temperature;
 pub mod torque_speed;
 

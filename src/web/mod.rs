@@ -12,6 +12,7 @@ pub mod plots;
 pub mod routes;
 pub mod scoring;
 pub mod snapshot;
+pub mod sweeps;
 pub mod validate;
 
 use std::io::Write;
@@ -37,6 +38,7 @@ pub struct AppState {
     pub login_limiter: Arc<limiter::LoginLimiter>,
     pub results: Arc<scoring::ResultsCache>,
     pub reviews: Arc<live::ReviewHub>,
+    pub sweeps: Arc<sweeps::SweepJobs>,
 }
 
 impl AppState {
@@ -47,6 +49,7 @@ impl AppState {
             login_limiter: Arc::default(),
             results: Arc::default(),
             reviews: Arc::default(),
+            sweeps: Arc::default(),
         }
     }
 }
@@ -73,6 +76,8 @@ pub fn routes() -> routes::Routes {
         .merge(routes::api::router())
         .merge(routes::reviews::router())
         .merge(routes::history::router())
+        .merge(routes::sweeps::router())
+        .merge(routes::robustness::router())
 }
 
 /// The path pattern of every route the application serves.

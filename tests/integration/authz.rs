@@ -96,6 +96,16 @@ const RULES: &[(&str, &str, Access, u16)] = &[
     ("GET", "/api/reviews/{id}", Api(0), 200),
     ("GET", "/api/reviews/{id}/diff", Api(0), 200),
     ("GET", "/static/review.js", Public, 200),
+    ("GET", "/static/sweep.js", Public, 200),
+    ("GET", "/studies/{id}/candidates/{cid}/sweep", Page(0), 200),
+    ("POST", "/studies/{id}/candidates/{cid}/sweep", Page(1), 400),
+    ("GET", "/sweeps/{job}", Page(0), 404),
+    ("GET", "/sweeps/{job}/events", Page(0), 404),
+    ("POST", "/sweeps/{job}/cancel", Page(1), 404),
+    ("GET", "/sweeps/{job}/rows.csv", Page(0), 404),
+    ("POST", "/sweeps/{job}/promote", Page(1), 404),
+    ("GET", "/studies/{id}/robustness", Page(0), 200),
+    ("GET", "/studies/{id}/robustness.csv", Page(0), 200),
 ];
 
 const METHODS: [Method; 5] = [
@@ -145,6 +155,8 @@ fn concrete(pattern: &str, ids: &Ids) -> String {
     pattern
         .replace("{id}", &id.to_string())
         .replace("{n}", "0")
+        .replace("{cid}", &ids.candidate.to_string())
+        .replace("{job}", "no-such-job")
         .replace("{row}", &row.to_string())
         .replace("{name}", "vic")
 }
@@ -265,7 +277,10 @@ async fn every_route_admits_exactly_the_roles_its_rule_names() {
     let probe = app.token_for("ada").await;
     let (mut missing, mut wrong, mut used) = (Vec::new(), Vec::new(), Vec::new());
     for pattern in shaftline::web::route_paths() {
-        let path = concrete(pattern, &ids);
+        let mut path = concrete(pattern, &ids);
+        if pattern.contains("/robustness") {
+            path.push_str("?samples=2"); // a small sample keeps the matrix quick
+        }
         for m in routed_methods(&app, &path, &probe).await {
             let rule = RULES.iter().find(|r| r.0 == m.as_str() && r.1 == pattern);
             let Some(&(method, _, access, ok)) = rule else {

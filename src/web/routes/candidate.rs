@@ -83,6 +83,7 @@ struct CandidatePage {
     id: i64,
     name: String,
     kind_title: String,
+    sweepable: bool,
     problem: Option<String>,
     feasible: Option<bool>,
     binding: String,
@@ -207,6 +208,10 @@ pub async fn show_candidate(
             .unwrap_or("")
             .to_string(),
         kind_title,
+        sweepable: matches!(
+            body.pointer("/source/kind").and_then(Value::as_str),
+            Some("radial_sizing" | "axial_sizing")
+        ),
         problem: loaded.problem.clone(),
         feasible: None,
         binding: String::new(),

@@ -11,8 +11,10 @@ pub mod import;
 pub mod items;
 pub mod registry;
 pub mod reviews;
+pub mod robustness;
 pub mod studies;
 pub mod study;
+pub mod sweeps;
 pub mod system;
 pub mod trade;
 

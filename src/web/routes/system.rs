@@ -1,4 +1,5 @@
-//! Liveness check and the embedded stylesheet (no CDN, no web fonts).
+//! Liveness check, the embedded stylesheet and the sweep progress script (no CDN, no
+//! web fonts).
 
 use crate::web::routes::Routes;
 use axum::http::header;
@@ -6,11 +7,13 @@ use axum::response::IntoResponse;
 use axum::routing::get;
 
 const APP_CSS: &str = include_str!("../../../static/app.css");
+const SWEEP_JS: &str = include_str!("../../../static/sweep.js");
 
 pub fn router() -> Routes {
     Routes::new()
         .route("/health", get(health))
         .route("/static/app.css", get(stylesheet))
+        .route("/static/sweep.js", get(sweep_script))
 }
 
 async fn health() -> impl IntoResponse {
@@ -19,4 +22,11 @@ async fn health() -> impl IntoResponse {
 
 async fn stylesheet() -> impl IntoResponse {
     ([(header::CONTENT_TYPE, "text/css; charset=utf-8")], APP_CSS)
+}
+
+async fn sweep_script() -> impl IntoResponse {
+    (
+        [(header::CONTENT_TYPE, "text/javascript; charset=utf-8")],
+        SWEEP_JS,
+    )
 }
