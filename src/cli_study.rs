@@ -202,30 +202,7 @@ pub fn run_robustness(args: &RobustnessArgs) -> anyhow::Result<()> {
             serde_json::to_writer_pretty(&mut out, &r).context("writing the results")?;
             writeln!(out)?;
         }
-        OutputFormat::Csv => {
-            let mut w = csv::Writer::from_writer(out);
-            w.write_record([
-                "candidate",
-                "nominal_feasible",
-                "p_feasible",
-                "p_pareto",
-                "p_best",
-                "samples",
-                "seed",
-            ])?;
-            for c in &r.candidates {
-                w.write_record([
-                    c.name.clone(),
-                    c.nominal_feasible.to_string(),
-                    c.p_feasible.to_string(),
-                    c.p_pareto.to_string(),
-                    c.p_best.to_string(),
-                    r.samples.to_string(),
-                    args.seed.to_string(),
-                ])?;
-            }
-            w.flush()?;
-        }
+        OutputFormat::Csv => crate::export::write_robustness_csv(&r, args.seed, &mut out)?,
     }
     Ok(())
 }

@@ -5,12 +5,14 @@
 //! column names; quoting follows RFC 4180 (CRLF line ends); text is UTF-8 without BOM.
 
 mod candidates;
+mod robustness;
 mod segments;
 mod summary;
 
 pub use candidates::{
     RowError, TEMPLATE_COLUMNS, read_datasheet_candidates, write_candidate_template,
 };
+pub use robustness::write_robustness_csv;
 pub use segments::{SEGMENT_COLUMNS, write_segments_csv};
 pub use summary::{summary_columns, write_summary_csv};
 

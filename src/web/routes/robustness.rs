@@ -194,28 +194,8 @@ async fn show_robustness(
 }
 
 fn csv_text(run: &Run, r: &Robustness) -> Result<String, csv::Error> {
-    let mut w = csv::Writer::from_writer(Vec::new());
-    w.write_record([
-        "candidate",
-        "nominal_feasible",
-        "p_feasible",
-        "p_pareto",
-        "p_best",
-        "samples",
-        "seed",
-    ])?;
-    for c in &r.candidates {
-        w.write_record([
-            c.name.clone(),
-            c.nominal_feasible.to_string(),
-            c.p_feasible.to_string(),
-            c.p_pareto.to_string(),
-            c.p_best.to_string(),
-            run.samples.to_string(),
-            run.seed.to_string(),
-        ])?;
-    }
-    let bytes = w.into_inner().map_err(|e| e.into_error())?;
+    let mut bytes = Vec::new();
+    crate::export::write_robustness_csv(r, run.seed, &mut bytes)?;
     Ok(String::from_utf8_lossy(&bytes).into_owned())
 }
 
