@@ -39,6 +39,12 @@ pub struct BenchArgs {
     /// Designs of the A1 sweep (R_o × λ grid, rounded to a square).
     #[arg(long, default_value_t = 100_000)]
     pub sweep_designs: usize,
+    /// Concurrent clients of the loopback load run.
+    #[arg(long, default_value_t = 100)]
+    pub load_clients: usize,
+    /// Requests of the loopback load run (0 skips it).
+    #[arg(long, default_value_t = 2000)]
+    pub load_requests: usize,
 }
 
 /// Reads and validates a study file; bad input prints `error: <json path>: <message>`
@@ -76,12 +82,21 @@ pub fn run_score(args: &ScoreArgs) -> anyhow::Result<()> {
     Ok(())
 }
 
-/// Prints the engine benchmark figures.
-pub fn run_bench(args: &BenchArgs) -> anyhow::Result<()> {
-    crate::bench::run(
+/// Prints the engine benchmark figures, then the server load figures.
+pub async fn run_bench(args: &BenchArgs) -> anyhow::Result<()> {
+    let (runs, designs, sweep) = (
         args.runs.max(1),
         args.designs.max(1),
         args.sweep_designs.max(4),
     );
+    tokio::task::spawn_blocking(move || crate::bench::run(runs, designs, sweep)).await?;
+    if args.load_requests > 0 {
+        let clients = args.load_clients.max(1);
+        let report = crate::loadtest::run_fresh(clients, args.load_requests).await?;
+        println!(
+            "server on loopback, {clients} clients: {}",
+            report.summary()
+        );
+    }
     Ok(())
 }

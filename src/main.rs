@@ -18,7 +18,7 @@ async fn main() -> anyhow::Result<()> {
         Commands::User { db, action } => cli::run_user(&db, action).await,
         Commands::Token { db, action } => cli::run_token(&db, action).await,
         Commands::Score(args) => shaftline::cli_engine::run_score(&args),
-        Commands::Bench(args) => shaftline::cli_engine::run_bench(&args),
+        Commands::Bench(args) => shaftline::cli_engine::run_bench(&args).await,
         Commands::Sweep(args) => shaftline::cli_study::run_sweep(&args),
         Commands::Robustness(args) => shaftline::cli_study::run_robustness(&args),
         Commands::Backup { db, dest } => cli::run_backup(&db, &dest).await,

@@ -4,7 +4,10 @@
 //! counts, and checks for lost updates: every edit increments a counter kept in the
 //! study's notes, so the final counter must equal the start plus the acknowledged edits.
 
+mod fresh;
 pub mod http;
+
+pub use fresh::run_fresh;
 
 use std::net::SocketAddr;
 use std::sync::Arc;
