@@ -7,6 +7,7 @@ use std::collections::HashSet;
 use serde_json::Value;
 
 use crate::engine::error::InputError;
+use crate::engine::reader::Obj;
 use crate::engine::study::{self, Study};
 use crate::storage::studies::StudyDoc;
 
@@ -27,9 +28,7 @@ pub fn validate_doc(doc: &StudyDoc) -> Result<Option<Study>, InputError> {
     if is_complete(doc) {
         return study::parse_study(&doc.to_file_json()).map(Some);
     }
-    if doc.name.trim().is_empty() {
-        return Err(err("name".into(), "must not be empty"));
-    }
+    check_header_text(doc)?;
     study::parse_aircraft(&doc.aircraft, "aircraft")?;
     if let Some(inst) = &doc.installation {
         check_installation(inst)?;
@@ -41,6 +40,20 @@ pub fn validate_doc(doc: &StudyDoc) -> Result<Option<Study>, InputError> {
         study::parse_candidate(v, p).map(drop)
     })?;
     Ok(None)
+}
+
+/// The study file's limits on the name and the notes (as for a complete study).
+const MAX_NAME: usize = 200;
+const MAX_NOTES: usize = 20_000;
+
+/// The name and notes of a study still being built, by the engine's reader: the same
+/// rules (non-empty, no control characters, bounded length) as for a complete study.
+fn check_header_text(doc: &StudyDoc) -> Result<(), InputError> {
+    let header = serde_json::json!({ "name": doc.name, "notes": doc.notes });
+    let mut o = Obj::new(&header, "")?;
+    o.req_name("name", MAX_NAME)?;
+    o.opt_str("notes", MAX_NOTES)?;
+    Ok(())
 }
 
 fn check_rows(

@@ -146,7 +146,7 @@ async fn adding_an_account_with_a_short_password_shows_the_error_and_stores_noth
             ],
         )
         .await;
-    assert_eq!(resp.status, StatusCode::OK);
+    assert_eq!(resp.status, StatusCode::UNPROCESSABLE_ENTITY);
     assert!(
         resp.body.contains("at least 8 characters (got 3)"),
         "{}",

@@ -55,7 +55,7 @@ async fn one_bad_row_imports_nothing_and_every_bad_row_is_listed() {
     );
     let before = candidate_count(&app).await;
     let resp = app.post_import_candidates(&eve, app.demo_id, &csv).await;
-    assert_eq!(resp.status, StatusCode::OK);
+    assert_eq!(resp.status, StatusCode::UNPROCESSABLE_ENTITY);
     assert_eq!(candidate_count(&app).await, before, "nothing imported");
     assert!(resp.body.contains("Nothing was imported"));
     let table = &resp.body[resp.body.find("id=\"import-errors\"").expect("error table")..];
@@ -83,7 +83,7 @@ async fn a_name_already_in_the_study_imports_nothing() {
     let csv = format!("{HEADER}\n\"{taken}\",1,radial,20,50,2400,100,120,3000,0.95\n");
     let before = candidate_count(&app).await;
     let resp = app.post_import_candidates(&eve, app.demo_id, &csv).await;
-    assert_eq!(resp.status, StatusCode::OK);
+    assert_eq!(resp.status, StatusCode::UNPROCESSABLE_ENTITY);
     assert!(
         resp.body.contains("id=\"import-problem\"") && resp.body.contains("line 2"),
         "{}",

@@ -5,6 +5,7 @@ mod api;
 mod audit;
 mod authz;
 mod backup;
+mod bad_input;
 mod binary;
 mod browser;
 mod cli;

@@ -53,7 +53,7 @@ async fn a_bad_airspeed_is_reported_beside_its_field_with_the_input_kept() {
     let mut bad = LOITER.to_vec();
     bad[3] = ("power.tas_m_s", "-5");
     let resp = app.post_new_row(&eve, app.demo_id, "segments", &bad).await;
-    assert_eq!(resp.status, StatusCode::OK);
+    assert_eq!(resp.status, StatusCode::UNPROCESSABLE_ENTITY);
     let at = resp
         .body
         .find("id=\"err-power.tas_m_s\"")
@@ -95,7 +95,7 @@ async fn a_duplicate_segment_name_is_refused() {
     dup[0] = ("name", &first);
     let before = rows(&app, Item::Segment).await.len();
     let resp = app.post_new_row(&eve, app.demo_id, "segments", &dup).await;
-    assert_eq!(resp.status, StatusCode::OK);
+    assert_eq!(resp.status, StatusCode::UNPROCESSABLE_ENTITY);
     assert!(resp.body.contains("class=\"error\"") || resp.body.contains("class=\"notice\""));
     assert_eq!(rows(&app, Item::Segment).await.len(), before);
 }

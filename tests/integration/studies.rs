@@ -67,7 +67,7 @@ async fn importing_a_broken_file_names_the_path_and_stores_nothing() {
     let resp = app
         .post_import(&eve, "{\"format\": \"something-else\"}")
         .await;
-    assert_eq!(resp.status, StatusCode::OK);
+    assert_eq!(resp.status, StatusCode::UNPROCESSABLE_ENTITY);
     assert!(resp.body.contains("id=\"err-study_json\""), "{}", resp.body);
     assert!(resp.body.contains("format"), "names the field");
     assert!(resp.body.contains("something-else"), "input kept");
@@ -132,7 +132,7 @@ async fn a_bad_motor_count_on_the_aircraft_form_is_shown_and_not_stored() {
         pairs.push((k, v));
     }
     let resp = app.post_study_header(&eve, app.demo_id, &pairs).await;
-    assert_eq!(resp.status, StatusCode::OK);
+    assert_eq!(resp.status, StatusCode::UNPROCESSABLE_ENTITY);
     assert!(
         resp.body.contains("id=\"err-aircraft.motor_count\""),
         "{}",

@@ -222,7 +222,7 @@ async fn add_user(
     page.err_username = secrets::check_username(&form.username).err();
     page.err_password = secrets::check_new_password(&form.password).err();
     if page.err_username.is_some() || page.err_password.is_some() {
-        return Ok(HtmlTemplate(page).into_response());
+        return Ok((StatusCode::UNPROCESSABLE_ENTITY, HtmlTemplate(page)).into_response());
     }
     let password = form.password.clone();
     let hash = tokio::task::spawn_blocking(move || secrets::hash_password(&password))
@@ -233,7 +233,7 @@ async fn add_user(
         Ok(_) => Ok(Redirect::to("/admin/users").into_response()),
         Err(crate::storage::StorageError::Invalid(m)) => {
             page.err_username = Some(m);
-            Ok(HtmlTemplate(page).into_response())
+            Ok((StatusCode::UNPROCESSABLE_ENTITY, HtmlTemplate(page)).into_response())
         }
         Err(e) => Err(e.into()),
     }

@@ -60,7 +60,7 @@ fn parse_body(body: &Bytes) -> Result<(Study, StudyDoc), ApiError> {
     let value: Value = serde_json::from_slice(body).map_err(|e| {
         ApiError::new(
             StatusCode::BAD_REQUEST,
-            "",
+            "body",
             format!("body is not valid JSON: {e}"),
         )
     })?;

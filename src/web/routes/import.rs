@@ -106,6 +106,12 @@ async fn check_with_study(
     }))
 }
 
+/// The import form re-shown with its errors answers 422.
+fn unprocessable(mut resp: Response) -> Response {
+    *resp.status_mut() = axum::http::StatusCode::UNPROCESSABLE_ENTITY;
+    resp
+}
+
 async fn import_candidates(
     State(state): State<AppState>,
     Editor(user): Editor,
@@ -116,11 +122,13 @@ async fn import_candidates(
         Ok(rows) => rows,
         Err(errors) => {
             let msg = "Nothing was imported: every refused row is listed below.".to_string();
-            return page(&state, &user, id, f.candidates_csv, errors, Some(msg)).await;
+            let resp = page(&state, &user, id, f.candidates_csv, errors, Some(msg)).await?;
+            return Ok(unprocessable(resp));
         }
     };
     if let Some(msg) = check_with_study(&state, id, &rows).await? {
-        return page(&state, &user, id, f.candidates_csv, Vec::new(), Some(msg)).await;
+        let resp = page(&state, &user, id, f.candidates_csv, Vec::new(), Some(msg)).await?;
+        return Ok(unprocessable(resp));
     }
     match studies::append_items(
         &state.db,
@@ -135,7 +143,9 @@ async fn import_candidates(
         Ok(_) => Ok(Redirect::to(&format!("/studies/{id}")).into_response()),
         Err(e @ StorageError::Conflict { .. }) => {
             let msg = format!("Nothing was imported: {e}");
-            page(&state, &user, id, f.candidates_csv, Vec::new(), Some(msg)).await
+            let mut resp = page(&state, &user, id, f.candidates_csv, Vec::new(), Some(msg)).await?;
+            *resp.status_mut() = axum::http::StatusCode::CONFLICT;
+            Ok(resp)
         }
         Err(e) => Err(e.into()),
     }

@@ -3,6 +3,7 @@
 use crate::web::routes::Routes;
 use askama::Template;
 use axum::extract::{Form, Path, State};
+use axum::http::StatusCode;
 use axum::response::{IntoResponse, Redirect, Response};
 use axum::routing::{get, post};
 use serde::Deserialize;
@@ -96,7 +97,7 @@ async fn create_study(
             let mut page = ListPage::load(&state, Nav::of(&user)).await?;
             page.fields = forms::views(STUDY_HEADER, &values, &errors);
             page.new_error = Some("The study was not created: see the marked fields.".into());
-            Ok(HtmlTemplate(page).into_response())
+            Ok((StatusCode::UNPROCESSABLE_ENTITY, HtmlTemplate(page)).into_response())
         }
     }
 }
@@ -132,7 +133,7 @@ async fn import_study(
             let mut page = ListPage::load(&state, Nav::of(&user)).await?;
             page.import_text = form.study_json;
             page.import_error = Some(message);
-            Ok(HtmlTemplate(page).into_response())
+            Ok((StatusCode::UNPROCESSABLE_ENTITY, HtmlTemplate(page)).into_response())
         }
     }
 }

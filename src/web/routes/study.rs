@@ -4,6 +4,7 @@
 use crate::web::routes::Routes;
 use askama::Template;
 use axum::extract::{Form, Path, State};
+use axum::http::StatusCode;
 use axum::response::{IntoResponse, Redirect, Response};
 use axum::routing::get;
 use serde_json::Value;
@@ -231,19 +232,24 @@ async fn update_study(
     let revision = form_revision(&pairs)?;
     let values = form_values(pairs);
     let loaded = load_study(&state, id).await?;
-    let failure = match checked_header(&values, &loaded.doc) {
+    let (failure, status) = match checked_header(&values, &loaded.doc) {
         Ok(doc) => {
             match studies::update_study_header(&state.db, id, revision, &doc, &user.username).await
             {
                 Ok(_) => return Ok(Redirect::to(&format!("/studies/{id}")).into_response()),
-                Err(e @ StorageError::Conflict { .. }) => (Errors::new(), Some(e.to_string())),
+                Err(e @ StorageError::Conflict { .. }) => {
+                    ((Errors::new(), Some(e.to_string())), StatusCode::CONFLICT)
+                }
                 Err(e) => return Err(e.into()),
             }
         }
-        Err(f) => f,
+        // The form re-shown with its errors beside the fields.
+        Err(f) => (f, StatusCode::UNPROCESSABLE_ENTITY),
     };
     let general = failure
         .1
         .or_else(|| Some("Nothing was saved: see the marked fields.".into()));
-    render(&state, &user, loaded, Some((values, failure.0, general))).await
+    let mut page = render(&state, &user, loaded, Some((values, failure.0, general))).await?;
+    *page.status_mut() = status;
+    Ok(page)
 }

@@ -131,13 +131,17 @@ pub(super) async fn form_page(
     Ok(HtmlTemplate(page).into_response())
 }
 
+/// Why a save was refused: the field errors, a general message, and whether the row
+/// was changed by someone else since the form was loaded (a stale revision).
+type Refusal = (Errors, Option<String>, bool);
+
 /// Validates the new body with the whole study, then stores it.
 async fn save(
     state: &AppState,
     user: &CurrentUser,
     t: &Target,
     body: Value,
-) -> Result<Result<(), (Errors, Option<String>)>, AppError> {
+) -> Result<Result<(), Refusal>, AppError> {
     let (_, mut doc) = studies::load_doc(&state.db, t.study_id).await?;
     let rows = studies::list_items(&state.db, t.item, t.study_id).await?;
     let (list, name) = match t.item {
@@ -157,7 +161,8 @@ async fn save(
         list.push(body.clone());
     }
     if let Err(e) = validate_doc(&doc) {
-        return Ok(Err(place_error(&e, &format!("{name}[{index}]"), t.fields)));
+        let (errors, general) = place_error(&e, &format!("{name}[{index}]"), t.fields);
+        return Ok(Err((errors, general, false)));
     }
     let stored = match t.row {
         Some((id, rev)) => studies::update_item(
@@ -177,7 +182,9 @@ async fn save(
     };
     match stored {
         Ok(()) => Ok(Ok(())),
-        Err(e @ StorageError::Conflict { .. }) => Ok(Err((Errors::new(), Some(e.to_string())))),
+        Err(e @ StorageError::Conflict { .. }) => {
+            Ok(Err((Errors::new(), Some(e.to_string()), true)))
+        }
         Err(e) => Err(e.into()),
     }
 }
@@ -191,19 +198,20 @@ pub(super) async fn submit(
 ) -> Result<Response, AppError> {
     let outcome = match forms::build_json(t.fields, &values, Some(&base)) {
         Ok(body) => save(state, user, &t, body).await?,
-        Err(errors) => Err((errors, None)),
+        Err(errors) => Err((errors, None, false)),
     };
     match outcome {
         Ok(()) => Ok(Redirect::to(&format!("/studies/{}", t.study_id)).into_response()),
-        Err((errors, general)) => {
-            // A refusal with no field marked is a stale revision: answer 409.
-            let stale = errors.is_empty() && general.is_some();
+        Err((errors, general, stale)) => {
             let general =
                 general.or_else(|| Some("Nothing was saved: see the marked fields.".into()));
             let mut page = form_page(state, user, &t, &values, &errors, general).await?;
-            if stale {
-                *page.status_mut() = axum::http::StatusCode::CONFLICT;
-            }
+            // A stale revision answers 409; a form re-shown with its errors 422.
+            *page.status_mut() = if stale {
+                axum::http::StatusCode::CONFLICT
+            } else {
+                axum::http::StatusCode::UNPROCESSABLE_ENTITY
+            };
             Ok(page)
         }
     }
