@@ -86,64 +86,120 @@ pub struct Closure {
 const TOLERANCE_KG: f64 = 0.01;
 const MAX_ITERATIONS: usize = 200;
 
-/// Finds the smallest root of F(m) = m from below: fixed-point steps (which rise
+/// What the closure wants next: a flight at this mass, or it is done.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub enum Next {
+    Fly(f64),
+    Done(Closure),
+}
+
+/// The closure as a state machine over flights, so that one design or several flown in
+/// lockstep share the same iteration.
+///
+/// It finds the smallest root of F(m) = m from below: fixed-point steps (which rise
 /// monotonically to that root because F increases with m), accelerated by secant steps
-/// that are kept only when they land where F(m) ≥ m, i.e. still below the root.
-pub fn close(
-    grid: &MissionGrid,
-    prep: &Prepared,
-    ac: &AircraftConst,
-    flight: &mut Flight,
-) -> Closure {
-    let motor = prep.model.mass_kg;
-    let mut m =
-        ac.airframe_kg + ac.payload_kg + ac.motors * motor + ac.fixed_battery_kg.unwrap_or(0.0);
-    let mut prev: Option<(f64, f64)> = None;
-    let mut evals = 0;
-    let ceiling = 3.0 * ac.mtom_kg;
-    while evals < MAX_ITERATIONS {
-        prep.fly(grid, m, flight, None);
-        evals += 1;
-        let p = parts(ac, motor, flight);
-        let g = p.sum_kg - m;
-        if !p.sum_kg.is_finite() || p.sum_kg > ceiling {
-            break;
+/// that are kept only when they land where F(m) ≥ m, i.e. still below the root. No root
+/// below 3 × the maximum takeoff mass, a non-finite sum or too many iterations end it
+/// with one last flight at the maximum takeoff mass.
+#[derive(Debug, Clone, Copy)]
+pub struct Closer {
+    ac: AircraftConst,
+    motor_kg: f64,
+    m: f64,
+    prev: Option<(f64, f64)>,
+    evals: usize,
+    at_mtom: bool,
+}
+
+impl Closer {
+    /// The closure of a motor of `motor_kg`, and the first mass to fly.
+    pub fn start(ac: &AircraftConst, motor_kg: f64) -> (Closer, f64) {
+        let m = ac.airframe_kg + ac.payload_kg + ac.motors * motor_kg + ac.fixed_battery_kg.unwrap_or(0.0);
+        (Closer { ac: *ac, motor_kg, m, prev: None, evals: 0, at_mtom: false }, m)
+    }
+
+    /// Takes the flight at the mass last asked for and says what comes next.
+    pub fn after(&mut self, flight: &Flight) -> Next {
+        let ac = &self.ac;
+        let p = parts(ac, self.motor_kg, flight);
+        if self.at_mtom {
+            return Next::Done(Closure { converged: false, takeoff_mass_kg: ac.mtom_kg, parts: p, iterations: self.evals });
+        }
+        self.evals += 1;
+        let (m, g) = (self.m, p.sum_kg - self.m);
+        let ceiling = 3.0 * ac.mtom_kg;
+        if !p.sum_kg.is_finite() || p.sum_kg > ceiling || self.evals >= MAX_ITERATIONS {
+            self.at_mtom = true;
+            return Next::Fly(ac.mtom_kg);
         }
         if g.abs() < TOLERANCE_KG {
-            return Closure {
-                converged: true,
-                takeoff_mass_kg: p.sum_kg,
-                parts: p,
-                iterations: evals,
-            };
+            return Next::Done(Closure { converged: true, takeoff_mass_kg: p.sum_kg, parts: p, iterations: self.evals });
         }
-        let next = match prev {
-            Some((m0, g0)) if g >= 0.0 && g0 > g && m > m0 => {
+        if g < 0.0 {
+            // A secant step went past the root: step back to the last point below it.
+            let (m0, g0) = self.prev.unwrap_or((m, 0.0));
+            self.prev = None;
+            self.m = m0 + g0;
+            return Next::Fly(self.m);
+        }
+        let next = match self.prev {
+            Some((m0, g0)) if g0 > g && m > m0 => {
                 let secant = m + g * (m - m0) / (g0 - g);
-                if secant.is_finite() && secant > p.sum_kg && secant <= ceiling {
-                    secant
-                } else {
-                    p.sum_kg
-                }
+                if secant.is_finite() && secant > p.sum_kg && secant <= ceiling { secant } else { p.sum_kg }
             }
             _ => p.sum_kg,
         };
-        if g < 0.0 {
-            // A secant step went past the root: step back to the last point below it.
-            let (m0, g0) = prev.unwrap_or((m, 0.0));
-            prev = None;
-            m = m0 + g0;
-            continue;
+        self.prev = Some((m, g));
+        self.m = next;
+        Next::Fly(next)
+    }
+}
+
+/// Closes the mass of one design; `flight` then holds the flight at the closing mass (or
+/// at the maximum takeoff mass when it does not close).
+pub fn close(grid: &MissionGrid, prep: &Prepared, ac: &AircraftConst, flight: &mut Flight) -> Closure {
+    let (mut closer, mut m) = Closer::start(ac, prep.model.mass_kg);
+    loop {
+        prep.fly(grid, m, flight, None);
+        match closer.after(flight) {
+            Next::Fly(next) => m = next,
+            Next::Done(c) => return c,
         }
-        prev = Some((m, g));
-        m = next;
     }
-    prep.fly(grid, ac.mtom_kg, flight, None);
-    let p = parts(ac, motor, flight);
-    Closure {
-        converged: false,
-        takeoff_mass_kg: ac.mtom_kg,
-        parts: p,
-        iterations: evals,
+}
+
+/// Closes the masses of N designs together: each keeps its own closure, and every round
+/// flies them all in lockstep (a design already closed flies along unused). Each
+/// `flights[l]` then holds design l's final flight, as [`close`] would leave it.
+pub fn close_lanes<const N: usize>(
+    grid: &MissionGrid,
+    preps: [&Prepared; N],
+    acs: [&AircraftConst; N],
+    flights: &mut [Flight; N],
+) -> [Closure; N] {
+    let mut closers: [Closer; N] = std::array::from_fn(|l| Closer::start(acs[l], preps[l].model.mass_kg).0);
+    let mut masses: [f64; N] = std::array::from_fn(|l| Closer::start(acs[l], preps[l].model.mass_kg).1);
+    let mut done: [Option<Closure>; N] = [None; N];
+    let mut finals: [Option<Flight>; N] = std::array::from_fn(|_| None);
+    while done.iter().any(Option::is_none) {
+        super::fly::fly_lanes_fast(preps, grid, masses, flights.each_mut());
+        for l in 0..N {
+            if done[l].is_some() {
+                continue;
+            }
+            match closers[l].after(&flights[l]) {
+                Next::Fly(m) => masses[l] = m,
+                Next::Done(c) => {
+                    done[l] = Some(c);
+                    finals[l] = Some(flights[l].clone());
+                }
+            }
+        }
     }
+    for (f, fin) in flights.iter_mut().zip(finals) {
+        if let Some(fin) = fin {
+            *f = fin;
+        }
+    }
+    done.map(|c| c.unwrap_or_default())
 }

@@ -314,3 +314,44 @@ pub fn evaluate_frozen(
     let run = ev.run(model);
     report::assemble(ctx, cand, model, &run, None, a)
 }
+
+/// [`evaluate_lean`] for many candidates at once: designs of a fixed size (datasheet or
+/// geometry mode) are flown four at a time in lockstep, with the same results as one by
+/// one; size-to-mission candidates and a remainder of fewer than four go one by one.
+pub fn evaluate_lean_group(ctx: &StudyContext, cands: &[Candidate]) -> Vec<CandidateResult> {
+    const LANES: usize = 4;
+    let mut out: Vec<Option<CandidateResult>> = vec![None; cands.len()];
+    let mut fixed: Vec<(usize, Evaluator, MotorModel)> = Vec::new();
+    for (i, cand) in cands.iter().enumerate() {
+        let mut a = Assumptions::quiet();
+        let ev = evaluator(ctx, cand, &mut a);
+        let model = match &cand.source {
+            Source::Datasheet(d) => Some(datasheet::build(d, &mut a)),
+            _ => match scalable(ctx, cand, &ev, &mut a) {
+                Ok((sc, Some(scale))) => sc.build(scale).ok(),
+                _ => None,
+            },
+        };
+        match model {
+            Some(m) => fixed.push((i, ev, m)),
+            None => out[i] = Some(evaluate_lean(ctx, cand)),
+        }
+    }
+    let mut groups = fixed.chunks_exact(LANES);
+    for group in groups.by_ref() {
+        let preps: [Prepared; LANES] = std::array::from_fn(|l| Prepared::new(&group[l].2, group[l].1.drive, &ctx.grid));
+        let mut flights: [Flight; LANES] = std::array::from_fn(|_| Flight::default());
+        let closures = closure::close_lanes(&ctx.grid, preps.each_ref(), std::array::from_fn(|l| &group[l].1.aircraft), &mut flights);
+        for (l, flight) in flights.into_iter().enumerate() {
+            let (i, ev, model) = &group[l];
+            let outcomes = checks::outcomes(model, &flight, &closures[l], &ev.limits);
+            let run = Run { closure: closures[l], flight, outcomes };
+            out[*i] = Some(report::assemble(ctx, &cands[*i], model, &run, None, Assumptions::quiet()));
+        }
+    }
+    for (i, ev, model) in groups.remainder() {
+        let run = ev.run(model);
+        out[*i] = Some(report::assemble(ctx, &cands[*i], model, &run, None, Assumptions::quiet()));
+    }
+    out.into_iter().map(|r| r.unwrap_or_else(|| unreachable!("every candidate is scored"))).collect()
+}

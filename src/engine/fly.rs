@@ -163,13 +163,44 @@ impl<'a> Prepared<'a> {
     }
 
     /// Flies the nominal mission and every OEI run at takeoff mass `m`.
-    pub fn fly(
-        &self,
-        grid: &MissionGrid,
-        m: f64,
-        out: &mut Flight,
-        mut trace: Option<&mut Vec<TracePoint>>,
-    ) {
+    pub fn fly(&self, grid: &MissionGrid, m: f64, out: &mut Flight, trace: Option<&mut Vec<TracePoint>>) {
+        fly_lanes([self], grid, [m], [out], trace);
+    }
+}
+
+/// [`fly_lanes`] for four designs, compiled for AVX2 where the processor has it (the
+/// arithmetic is the same, lane by lane; only the instructions differ).
+pub fn fly_lanes_fast<const N: usize>(preps: [&Prepared; N], grid: &MissionGrid, m: [f64; N], outs: [&mut Flight; N]) {
+    #[cfg(target_arch = "x86_64")]
+    {
+        if std::arch::is_x86_feature_detected!("avx2") {
+            // SAFETY: the processor was just found to support AVX2.
+            unsafe { fly_lanes_avx2(preps, grid, m, outs) };
+            return;
+        }
+    }
+    fly_lanes(preps, grid, m, outs, None);
+}
+
+#[cfg(target_arch = "x86_64")]
+#[target_feature(enable = "avx2")]
+unsafe fn fly_lanes_avx2<const N: usize>(preps: [&Prepared; N], grid: &MissionGrid, m: [f64; N], outs: [&mut Flight; N]) {
+    fly_lanes(preps, grid, m, outs, None);
+}
+
+/// Flies N designs through the same mission in lockstep, lane by lane the same
+/// arithmetic as one design alone (so the results are identical); N independent
+/// dependency chains keep the processor busy and let the compiler vectorise across
+/// designs. `trace` records lane 0 only.
+#[inline(always)]
+pub fn fly_lanes<const N: usize>(
+    preps: [&Prepared; N],
+    grid: &MissionGrid,
+    m: [f64; N],
+    mut outs: [&mut Flight; N],
+    mut trace: Option<&mut Vec<TracePoint>>,
+) {
+    for (out, m) in outs.iter_mut().zip(m) {
         out.mass_kg = m;
         out.nominal.clear();
         out.oei.clear();
@@ -177,170 +208,217 @@ impl<'a> Prepared<'a> {
         out.prop_j = 0.0;
         out.max_elec_per_motor_w = 0.0;
         out.max_prop_torque_nm = 0.0;
-        let n = grid.motor_count as f64;
-        let mut state = self.initial(grid);
-        let mut starts: Vec<State> = Vec::with_capacity(grid.segments.len());
-        let mut time = 0.0;
-        for (i, g) in grid.segments.iter().enumerate() {
-            starts.push(state);
-            let stats = self.segment(
-                g,
-                i,
-                m,
-                n,
-                false,
-                &mut state,
-                out,
-                &mut time,
-                trace.as_deref_mut(),
-            );
-            out.battery_j += stats.battery_j;
-            out.prop_j += stats.prop_j;
-            out.nominal.push(stats);
+    }
+    let n = grid.motor_count as f64;
+    let mut state: [State; N] = std::array::from_fn(|l| preps[l].initial(grid));
+    let mut starts: Vec<[State; N]> = Vec::with_capacity(grid.segments.len());
+    let mut time = 0.0;
+    for (i, g) in grid.segments.iter().enumerate() {
+        starts.push(state);
+        let stats = segment_lanes(&preps, g, i, &m, n, false, &mut state, &mut outs, &mut time, trace.as_deref_mut());
+        for (out, s) in outs.iter_mut().zip(stats) {
+            out.battery_j += s.battery_j;
+            out.prop_j += s.prop_j;
+            out.nominal.push(s);
         }
-        for &(a, b) in &grid.oei_runs {
-            let mut st = starts[a];
-            let mut t = grid.segments[..a].iter().map(|g| g.duration_s).sum::<f64>();
-            for (i, g) in grid.segments.iter().enumerate().take(b + 1).skip(a) {
-                let stats = self.segment(
-                    g,
-                    i,
-                    m,
-                    n - 1.0,
-                    true,
-                    &mut st,
-                    out,
-                    &mut t,
-                    trace.as_deref_mut(),
-                );
-                out.oei.push((i, stats));
+    }
+    for &(a, b) in &grid.oei_runs {
+        let mut st = starts[a];
+        let mut t = grid.segments[..a].iter().map(|g| g.duration_s).sum::<f64>();
+        for (i, g) in grid.segments.iter().enumerate().take(b + 1).skip(a) {
+            let stats = segment_lanes(&preps, g, i, &m, n - 1.0, true, &mut st, &mut outs, &mut t, trace.as_deref_mut());
+            for (out, s) in outs.iter_mut().zip(stats) {
+                out.oei.push((i, s));
             }
         }
     }
+}
 
-    #[allow(clippy::too_many_arguments)]
-    fn segment(
-        &self,
-        g: &SegmentGrid,
-        i: usize,
-        m: f64,
-        n_active: f64,
-        oei: bool,
-        st: &mut State,
-        out: &mut Flight,
-        time: &mut f64,
-        mut trace: Option<&mut Vec<TracePoint>>,
-    ) -> SegStats {
-        let c = &self.segs[i];
-        let dt = g.dt_s;
-        let shaft_div = 1.0 / (n_active * self.drive.gear_efficiency);
-        let inv_omega = 1.0 / c.omega;
-        let inv_prop_omega = 1.0 / (n_active * g.prop_omega);
-        let inv_eta_inv = 1.0 / self.drive.inverter_efficiency;
-        let inv_eta_b = 1.0 / self.drive.battery_efficiency;
-        let mut s = SegStats {
+/// Per-lane constants of one segment, laid out lane-wise for the step loop.
+struct Lanes<const N: usize> {
+    shaft_div: [f64; N],
+    inv_omega: [f64; N],
+    inv_eta_inv: [f64; N],
+    inv_prop_omega: f64,
+    b0: [f64; N],
+    alpha_br: [f64; N],
+    magnet_cap: [f64; N],
+    winding_cap: [f64; N],
+    cu0: [f64; N],
+    cu1: [f64; N],
+    iron: [f64; N],
+    other: [f64; N],
+    wind: [f64; N],
+    cur_w: [f64; N],
+    cur_nm: [f64; N],
+    inv_gsc: [f64; N],
+    air_w: [f64; N],
+    sink_c: [f64; N],
+    overload: [f64; N],
+    m: [[f64; 4]; N],
+    ab: [[f64; 4]; N],
+}
+
+impl<const N: usize> Lanes<N> {
+    fn new(preps: &[&Prepared; N], g: &SegmentGrid, i: usize, n_active: f64) -> Self {
+        let f = |get: &dyn Fn(&Prepared, &SegConst, &Kernel) -> f64| -> [f64; N] {
+            std::array::from_fn(|l| get(preps[l], &preps[l].segs[i], &preps[l].kernel))
+        };
+        let alpha = super::materials::CU_ALPHA_PER_K;
+        Lanes {
+            shaft_div: f(&|p, _, _| 1.0 / (n_active * p.drive.gear_efficiency)),
+            inv_omega: f(&|_, c, _| 1.0 / c.omega),
+            inv_eta_inv: f(&|p, _, _| 1.0 / p.drive.inverter_efficiency),
+            inv_prop_omega: 1.0 / (n_active * g.prop_omega),
+            // b = 1 + α_Br(θ_s − 20) and ρ(θ_w) ∝ 1 + α_Cu(θ_w − 20) as one multiply-add each.
+            b0: f(&|_, _, k| 1.0 - 20.0 * k.alpha_br),
+            alpha_br: f(&|_, _, k| k.alpha_br),
+            magnet_cap: f(&|_, _, k| k.magnet_cap),
+            winding_cap: f(&|_, _, k| k.winding_cap),
+            cu0: f(&|p, _, k| p.drive.loss_scale * k.cu_a * (1.0 - 20.0 * alpha)),
+            cu1: f(&|p, _, k| p.drive.loss_scale * k.cu_a * alpha),
+            iron: f(&|p, c, _| p.drive.loss_scale * c.iron_w),
+            other: f(&|p, c, _| p.drive.loss_scale * c.other_w),
+            wind: f(&|p, c, _| p.drive.loss_scale * c.wind_k),
+            cur_w: f(&|_, c, _| c.current_per_w),
+            cur_nm: f(&|_, _, k| k.current_per_nm),
+            inv_gsc: f(&|_, _, k| k.inv_gsc),
+            air_w: f(&|_, _, k| k.air_weight),
+            sink_c: f(&|_, _, k| k.sink_const),
+            overload: f(&|_, c, _| c.overload_nm),
+            m: std::array::from_fn(|l| {
+                let [[a, b], [c, d]] = preps[l].segs[i].prop;
+                [a, b, c, d]
+            }),
+            // Exact step x' = x_eq + M·(x − x_eq), x_eq linear in the losses, regrouped
+            // so that only the loss terms wait for this step's losses.
+            ab: std::array::from_fn(|l| {
+                let [[m00, m01], [m10, m11]] = preps[l].segs[i].prop;
+                let g2 = preps[l].kernel.inv_gws;
+                [1.0 - m00 - m01, (1.0 - m00) * g2, 1.0 - m10 - m11, -m10 * g2]
+            }),
+        }
+    }
+}
+
+#[allow(clippy::too_many_arguments)]
+#[inline(always)]
+fn segment_lanes<const N: usize>(
+    preps: &[&Prepared; N],
+    g: &SegmentGrid,
+    i: usize,
+    m: &[f64; N],
+    n_active: f64,
+    oei: bool,
+    st: &mut [State; N],
+    outs: &mut [&mut Flight; N],
+    time: &mut f64,
+    mut trace: Option<&mut Vec<TracePoint>>,
+) -> [SegStats; N] {
+    let k = Lanes::new(preps, g, i, n_active);
+    let dt = g.dt_s;
+    let z = [0.0f64; N];
+    // Accumulators live in lane arrays so that the loop keeps them in registers.
+    let (mut shaft, mut tq, mut cu_j, mut fe_j, mut mech_j, mut in_j, mut el_j, mut prop_j) = (z, z, z, z, z, z, z, z);
+    let (mut max_t, mut max_o, mut max_i) = (z, z, z);
+    let mut pk_w: [f64; N] = std::array::from_fn(|l| st[l].winding);
+    let mut pk_s: [f64; N] = std::array::from_fn(|l| st[l].stator);
+    let mut max_el: [f64; N] = std::array::from_fn(|l| outs[l].max_elec_per_motor_w);
+    let mut max_pt: [f64; N] = std::array::from_fn(|l| outs[l].max_prop_torque_nm);
+    let mut w: [f64; N] = std::array::from_fn(|l| st[l].winding);
+    let mut ss: [f64; N] = std::array::from_fn(|l| st[l].stator);
+    let mut ov: [f64; N] = std::array::from_fn(|l| st[l].overload_s);
+    let mut floored = [false; N];
+    let mut t_now = *time;
+    for p in &g.steps {
+        let c0 = if oei { p.c0_oei } else { p.c0 };
+        for l in 0..N {
+            let raw = c0 + m[l] * (p.c1 + m[l] * p.c2);
+            floored[l] |= raw < g.floor_w;
+            let power = fmax(raw, g.floor_w);
+            let pm = power * k.shaft_div[l];
+            let torque = pm * k.inv_omega[l];
+            let sink = k.air_w[l] * p.air_temp_c + k.sink_c[l];
+            let b = fmax(k.b0[l] + k.alpha_br[l] * fmin(ss[l], k.magnet_cap[l]), 0.1);
+            let inv_b = 1.0 / b;
+            let tb = torque * inv_b;
+            let cu = (k.cu0[l] + k.cu1[l] * fmin(w[l], k.winding_cap[l])) * (tb * tb);
+            let fe = b * b * k.iron[l];
+            let mech = k.other[l] + k.wind[l] * p.rho_nu02;
+            let loss = cu + fe + mech;
+            let input = pm + loss;
+            let elec = input * k.inv_eta_inv[l];
+            let current = input * k.cur_w[l] * inv_b + torque * k.cur_nm[l];
+            let es = sink + loss * k.inv_gsc[l];
+            let [m00, m01, m10, m11] = k.m[l];
+            let [aw, bw, a_s, b_s] = k.ab[l];
+            let w_next = (m00 * w[l] + m01 * ss[l]) + aw * es + bw * cu;
+            ss[l] = (m10 * w[l] + m11 * ss[l]) + a_s * es + b_s * cu;
+            w[l] = w_next;
+            ov[l] = if torque > k.overload[l] { ov[l] + dt } else { 0.0 };
+            shaft[l] += pm;
+            tq[l] += torque;
+            cu_j[l] += cu;
+            fe_j[l] += fe;
+            mech_j[l] += mech;
+            in_j[l] += input;
+            el_j[l] += elec;
+            prop_j[l] += power;
+            max_t[l] = fmax(max_t[l], torque);
+            max_o[l] = fmax(max_o[l], ov[l]);
+            max_i[l] = fmax(max_i[l], current);
+            pk_w[l] = fmax(pk_w[l], w[l]);
+            pk_s[l] = fmax(pk_s[l], ss[l]);
+            max_el[l] = fmax(max_el[l], elec);
+            max_pt[l] = fmax(max_pt[l], power * k.inv_prop_omega);
+            if l == 0
+                && let Some(tr) = trace.as_deref_mut()
+            {
+                tr.push(TracePoint {
+                    time_s: t_now + dt,
+                    segment: i,
+                    oei,
+                    winding_c: w[0],
+                    stator_c: ss[0],
+                    torque_nm: torque,
+                    speed_rad_s: preps[0].segs[i].omega,
+                });
+            }
+        }
+        t_now += dt;
+    }
+    *time = t_now;
+    std::array::from_fn(|l| {
+        let c = &preps[l].segs[i];
+        st[l] = State { winding: w[l], stator: ss[l], overload_s: ov[l] };
+        outs[l].max_elec_per_motor_w = max_el[l];
+        outs[l].max_prop_torque_nm = max_pt[l];
+        // Every step has the same length: the integrals are the sums times Δt.
+        let elec_j = n_active * el_j[l] * dt;
+        SegStats {
             duration_s: g.duration_s,
             motors: n_active,
             omega: c.omega,
             capability_nm: c.capability_nm,
-            peak_winding_c: st.winding,
-            peak_stator_c: st.stator,
-            ..Default::default()
-        };
-        let k = self.kernel;
-        let ls = self.drive.loss_scale;
-        let [[m00, m01], [m10, m11]] = c.prop;
-        let (aw, bw) = (1.0 - m00 - m01, (1.0 - m00) * k.inv_gws);
-        let (a_s, b_s) = (1.0 - m10 - m11, -m10 * k.inv_gws);
-        let alpha = super::materials::CU_ALPHA_PER_K;
-        // b = 1 + α_Br(θ_s − 20) and ρ(θ_w) ∝ 1 + α_Cu(θ_w − 20) as one multiply-add each.
-        let b0 = 1.0 - 20.0 * k.alpha_br;
-        let (cu0, cu1) = (ls * k.cu_a * (1.0 - 20.0 * alpha), ls * k.cu_a * alpha);
-        // Accumulators live in locals so that the loop keeps them in registers.
-        let (mut shaft, mut tq, mut cu_j, mut fe_j, mut mech_j, mut in_j, mut el_j, mut prop_j) =
-            (0.0, 0.0, 0.0, 0.0, 0.0, 0.0, 0.0, 0.0);
-        let (mut max_t, mut max_o, mut max_i) = (0.0f64, 0.0f64, 0.0f64);
-        let (mut pk_w, mut pk_s) = (s.peak_winding_c, s.peak_stator_c);
-        let (mut max_el, mut max_pt) = (out.max_elec_per_motor_w, out.max_prop_torque_nm);
-        let (mut w, mut st_s, mut ov) = (st.winding, st.stator, st.overload_s);
-        let mut floored_any = false;
-        let mut t_now = *time;
-        for p in &g.steps {
-            let raw = if oei { p.c0_oei } else { p.c0 } + m * (p.c1 + m * p.c2);
-            floored_any |= raw < g.floor_w;
-            let power = fmax(raw, g.floor_w);
-            let pm = power * shaft_div;
-            let torque = pm * inv_omega;
-            let sink = k.air_weight * p.air_temp_c + k.sink_const;
-            let b = fmax(b0 + k.alpha_br * fmin(st_s, k.magnet_cap), 0.1);
-            let inv_b = 1.0 / b;
-            let tb = torque * inv_b;
-            let cu = (cu0 + cu1 * fmin(w, k.winding_cap)) * (tb * tb);
-            let fe = ls * b * b * c.iron_w;
-            let mech = ls * (c.other_w + c.wind_k * p.rho_nu02);
-            let loss = cu + fe + mech;
-            let input = pm + loss;
-            let elec = input * inv_eta_inv;
-            let current = input * c.current_per_w * inv_b + torque * k.current_per_nm;
-            // Exact step x' = x_eq + M·(x − x_eq), with x_eq linear in the losses, regrouped
-            // so that only the loss terms wait for this step's losses.
-            let es = sink + loss * k.inv_gsc;
-            let w_next = (m00 * w + m01 * st_s) + aw * es + bw * cu;
-            st_s = (m10 * w + m11 * st_s) + a_s * es + b_s * cu;
-            w = w_next;
-            ov = if torque > c.overload_nm { ov + dt } else { 0.0 };
-            shaft += pm;
-            tq += torque;
-            cu_j += cu;
-            fe_j += fe;
-            mech_j += mech;
-            in_j += input;
-            el_j += elec;
-            prop_j += power;
-            max_t = fmax(max_t, torque);
-            max_o = fmax(max_o, ov);
-            max_i = fmax(max_i, current);
-            pk_w = fmax(pk_w, w);
-            pk_s = fmax(pk_s, st_s);
-            max_el = fmax(max_el, elec);
-            max_pt = fmax(max_pt, power * inv_prop_omega);
-            t_now += dt;
-            if let Some(tr) = trace.as_deref_mut() {
-                tr.push(TracePoint {
-                    time_s: t_now,
-                    segment: i,
-                    oei,
-                    winding_c: w,
-                    stator_c: st_s,
-                    torque_nm: torque,
-                    speed_rad_s: c.omega,
-                });
-            }
+            shaft_j: shaft[l] * dt,
+            torque_ns: tq[l] * dt,
+            copper_j: cu_j[l] * dt,
+            iron_j: fe_j[l] * dt,
+            mech_j: mech_j[l] * dt,
+            input_j: in_j[l] * dt,
+            elec_j,
+            battery_j: elec_j / preps[l].drive.battery_efficiency,
+            prop_j: prop_j[l] * dt,
+            max_torque_nm: max_t[l],
+            max_overload_s: max_o[l],
+            max_current_a: max_i[l],
+            peak_winding_c: pk_w[l],
+            peak_stator_c: pk_s[l],
+            end_winding_c: w[l],
+            end_stator_c: ss[l],
+            floor_applied: floored[l],
         }
-        // Every step has the same length: the integrals are the sums times Δt.
-        s.shaft_j = shaft * dt;
-        s.torque_ns = tq * dt;
-        s.copper_j = cu_j * dt;
-        s.iron_j = fe_j * dt;
-        s.mech_j = mech_j * dt;
-        s.input_j = in_j * dt;
-        s.elec_j = n_active * el_j * dt;
-        s.prop_j = prop_j * dt;
-        s.max_torque_nm = max_t;
-        s.max_overload_s = max_o;
-        s.max_current_a = max_i;
-        s.peak_winding_c = pk_w;
-        s.peak_stator_c = pk_s;
-        s.floor_applied = floored_any;
-        out.max_elec_per_motor_w = max_el;
-        out.max_prop_torque_nm = max_pt;
-        (st.winding, st.stator, st.overload_s) = (w, st_s, ov);
-        *time = t_now;
-        s.battery_j = s.elec_j * inv_eta_b;
-        s.end_winding_c = st.winding;
-        s.end_stator_c = st.stator;
-        s
-    }
+    })
 }
 
 fn seg_const(model: &MotorModel, drive: &Drive, g: &SegmentGrid) -> SegConst {

@@ -4,7 +4,7 @@
 //! atomics the caller owns.
 
 use super::error::InputError;
-use super::evaluate::{StudyContext, evaluate_lean};
+use super::evaluate::{StudyContext, evaluate_lean_group};
 use super::reader::fmt_num;
 use super::results::CandidateResult;
 use super::study::{Candidate, Cooling, SizingCommon, SizingMode, Source, Study};
@@ -15,6 +15,8 @@ use std::sync::atomic::{AtomicBool, AtomicUsize, Ordering};
 pub const MAX_DESIGNS: usize = 100_000;
 /// Designs scored together before their rows are handed out in order.
 pub const CHUNK: usize = 4096;
+/// Designs handed to one worker at a time (a multiple of the four lockstep lanes).
+const GROUP: usize = 16;
 
 /// An input a sweep may vary.
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
@@ -340,15 +342,19 @@ pub fn run(
             break;
         }
         let end = (start + CHUNK).min(n);
-        let rows: Vec<Option<CandidateResult>> = (start..end)
-            .into_par_iter()
-            .map(|i| {
+        // Groups of designs: fixed-size designs in a group are flown in lockstep.
+        let indices: Vec<usize> = (start..end).collect();
+        let rows: Vec<Option<CandidateResult>> = indices
+            .par_chunks(GROUP)
+            .flat_map_iter(|group| {
+                let designs: Vec<Candidate> = group.iter().map(|&i| sweep.raw_design(base, i)).collect();
                 if cancel.load(Ordering::Relaxed) {
-                    return None;
+                    return vec![None; designs.len()];
                 }
-                let r = evaluate_lean(&ctx, &sweep.raw_design(base, i));
-                done.fetch_add(1, Ordering::Relaxed);
-                Some(r)
+                let scored: Vec<Option<CandidateResult>> =
+                    evaluate_lean_group(&ctx, &designs).into_iter().map(Some).collect();
+                done.fetch_add(group.len(), Ordering::Relaxed);
+                scored
             })
             .collect();
         for (k, r) in rows.iter().enumerate() {
