@@ -55,6 +55,10 @@ pub struct UserRow {
     pub password_hash: String,
     pub role: String,
     pub created_at: String,
+    /// Bumped by every change of the account (role, password).
+    pub revision: i64,
+    pub updated_at: String,
+    pub updated_by: String,
 }
 
 impl UserRow {
@@ -98,14 +102,15 @@ pub async fn insert_user_as(
     let now = now_text();
     let mut tx = begin_write(db).await?;
     let res = sqlx::query(
-        "INSERT INTO user (username, password_hash, role, created_at, updated_at)
-         VALUES (?, ?, ?, ?, ?)",
+        "INSERT INTO user (username, password_hash, role, created_at, updated_at, updated_by)
+         VALUES (?, ?, ?, ?, ?, ?)",
     )
     .bind(username)
     .bind(password_hash)
     .bind(role.as_str())
     .bind(&now)
     .bind(&now)
+    .bind(by)
     .execute(&mut *tx)
     .await;
     let id = match res {
@@ -141,7 +146,8 @@ fn account_change(
 
 pub async fn find_user(db: &Db, username: &str) -> Result<Option<UserRow>> {
     Ok(sqlx::query_as(
-        "SELECT id, username, password_hash, role, created_at FROM user WHERE username = ?",
+        "SELECT id, username, password_hash, role, created_at, revision, updated_at, updated_by
+         FROM user WHERE username = ?",
     )
     .bind(username)
     .fetch_optional(db)
@@ -150,7 +156,8 @@ pub async fn find_user(db: &Db, username: &str) -> Result<Option<UserRow>> {
 
 pub async fn list_users(db: &Db) -> Result<Vec<UserRow>> {
     Ok(sqlx::query_as(
-        "SELECT id, username, password_hash, role, created_at FROM user ORDER BY username",
+        "SELECT id, username, password_hash, role, created_at, revision, updated_at, updated_by
+         FROM user ORDER BY username",
     )
     .fetch_all(db)
     .await?)
@@ -158,29 +165,41 @@ pub async fn list_users(db: &Db) -> Result<Vec<UserRow>> {
 
 /// Sets one column of an account and audits the change (`shown` turns the old value
 /// into what the record says of the old and new values: never a password hash).
+/// With `revision`, the change is made only if that is still the account's revision;
+/// otherwise it is a `Conflict` naming who changed the account and when.
 async fn update_user_column(
     db: &Db,
     username: &str,
     column: &'static str,
     value: &str,
     shown: impl FnOnce(&str) -> (Value, Value),
+    revision: Option<i64>,
     by: &str,
 ) -> Result<i64> {
     let mut tx = begin_write(db).await?;
-    let old_sql = format!("SELECT {column} FROM user WHERE username = ?");
-    let old: Option<(String,)> = sqlx::query_as(AssertSqlSafe(old_sql))
+    let old_sql =
+        format!("SELECT {column}, revision, updated_at, updated_by FROM user WHERE username = ?");
+    let old: Option<(String, i64, String, String)> = sqlx::query_as(AssertSqlSafe(old_sql))
         .bind(username)
         .fetch_optional(&mut *tx)
         .await?;
-    let (old,) = old.ok_or(StorageError::NotFound { what: "user" })?;
+    let (old, current, at, last_by) = old.ok_or(StorageError::NotFound { what: "user" })?;
+    if revision.is_some_and(|r| r != current) {
+        return Err(StorageError::Conflict {
+            by: last_by,
+            at,
+            revision: current,
+        });
+    }
     let shown = shown(&old);
     let sql = format!(
-        "UPDATE user SET {column} = ?, updated_at = ?, revision = revision + 1
+        "UPDATE user SET {column} = ?, updated_at = ?, updated_by = ?, revision = revision + 1
          WHERE username = ? RETURNING id"
     );
     let row: Option<(i64,)> = sqlx::query_as(AssertSqlSafe(sql))
         .bind(value)
         .bind(now_text())
+        .bind(by)
         .bind(username)
         .fetch_optional(&mut *tx)
         .await?;
@@ -208,7 +227,16 @@ pub async fn set_password_hash_as(
             json!({ "username": username, "password": "(changed)" }),
         )
     };
-    let id = update_user_column(db, username, "password_hash", password_hash, shown, by).await?;
+    let id = update_user_column(
+        db,
+        username,
+        "password_hash",
+        password_hash,
+        shown,
+        None,
+        by,
+    )
+    .await?;
     sqlx::query("DELETE FROM session WHERE user_id = ?")
         .bind(id)
         .execute(db)
@@ -220,14 +248,26 @@ pub async fn set_role(db: &Db, username: &str, role: Role) -> Result<()> {
     set_role_as(db, username, role, SYSTEM_ACTOR).await
 }
 
+/// Sets a role without a revision check (the command line, first start).
 pub async fn set_role_as(db: &Db, username: &str, role: Role, by: &str) -> Result<()> {
+    set_role_checked(db, username, role, None, by).await
+}
+
+/// Sets a role, provided `revision` (when given) is still the account's revision.
+pub async fn set_role_checked(
+    db: &Db,
+    username: &str,
+    role: Role,
+    revision: Option<i64>,
+    by: &str,
+) -> Result<()> {
     let shown = |old: &str| {
         (
             json!({ "username": username, "role": old }),
             json!({ "username": username, "role": role.as_str() }),
         )
     };
-    update_user_column(db, username, "role", role.as_str(), shown, by).await?;
+    update_user_column(db, username, "role", role.as_str(), shown, revision, by).await?;
     Ok(())
 }
 
@@ -298,7 +338,8 @@ pub async fn insert_api_token(db: &Db, token_hash: &str, username: &str) -> Resu
 /// The owner of an API token, read fresh on every request (no caching of accounts).
 pub async fn find_token_user(db: &Db, token_hash: &str) -> Result<Option<UserRow>> {
     Ok(sqlx::query_as(
-        "SELECT u.id, u.username, u.password_hash, u.role, u.created_at
+        "SELECT u.id, u.username, u.password_hash, u.role, u.created_at, u.revision,
+                u.updated_at, u.updated_by
          FROM api_token t JOIN user u ON u.id = t.user_id WHERE t.token_hash = ?",
     )
     .bind(token_hash)

@@ -107,6 +107,7 @@ async fn item_conflict(db: &Db, item: Item, study_id: i64, id: i64) -> StorageEr
         Ok(row) => StorageError::Conflict {
             by: row.updated_by,
             at: row.updated_at,
+            revision: row.revision,
         },
         Err(e) => e,
     }
@@ -188,12 +189,15 @@ pub async fn delete_item(
     Ok(())
 }
 
-/// Swaps a row with its neighbour above or below; at either end nothing changes.
+/// Swaps a row with its neighbour above or below, provided `revision` is still the
+/// row's revision; at either end nothing changes. Both rows that trade places get a
+/// new revision, so a second move made on the old page is refused as stale.
 pub async fn move_item(
     db: &Db,
     item: Item,
     study_id: i64,
     id: i64,
+    revision: i64,
     dir: MoveDirection,
     by: &str,
 ) -> Result<()> {
@@ -211,6 +215,10 @@ pub async fn move_item(
         .iter()
         .position(|r| r.id == id)
         .ok_or(StorageError::NotFound { what: item.what() })?;
+    if rows[at].revision != revision {
+        drop(tx);
+        return Err(item_conflict(db, item, study_id, id).await);
+    }
     let other = match dir {
         MoveDirection::Up => at.checked_sub(1),
         MoveDirection::Down => Some(at + 1).filter(|&i| i < rows.len()),
@@ -225,6 +233,19 @@ pub async fn move_item(
     for (pos, row_id) in order.iter().enumerate() {
         sqlx::query(AssertSqlSafe(sql.clone()))
             .bind(pos as i64)
+            .bind(row_id)
+            .execute(&mut *tx)
+            .await?;
+    }
+    let bump = format!(
+        "UPDATE {} SET revision = revision + 1, updated_at = ?, updated_by = ? WHERE id = ?",
+        item.table()
+    );
+    let now = now_text();
+    for row_id in [rows[at].id, rows[other].id] {
+        sqlx::query(AssertSqlSafe(bump.clone()))
+            .bind(&now)
+            .bind(by)
             .bind(row_id)
             .execute(&mut *tx)
             .await?;

@@ -29,8 +29,13 @@ pub enum StorageError {
     Json(#[from] serde_json::Error),
     #[error("{what} not found")]
     NotFound { what: &'static str },
+    /// A stale revision: who changed the row last, when, and its revision now.
     #[error("changed by {by} at {at}; reload")]
-    Conflict { by: String, at: String },
+    Conflict {
+        by: String,
+        at: String,
+        revision: i64,
+    },
     #[error("{0}")]
     Invalid(String),
     /// A write to something that no longer accepts writes (a closed review).

@@ -292,6 +292,7 @@ pub(super) async fn study_conflict(db: &Db, id: i64) -> StorageError {
         Ok(row) => StorageError::Conflict {
             by: row.updated_by,
             at: row.updated_at,
+            revision: row.revision,
         },
         Err(e) => e,
     }

@@ -88,6 +88,8 @@ pub struct ApiError {
     pub status: StatusCode,
     pub path: String,
     pub message: String,
+    /// On a conflict: the row's current revision, so the caller can re-read and retry.
+    pub revision: Option<i64>,
 }
 
 impl ApiError {
@@ -96,6 +98,7 @@ impl ApiError {
             status,
             path: path.to_string(),
             message: message.into(),
+            revision: None,
         }
     }
 }
@@ -106,9 +109,10 @@ impl From<StorageError> for ApiError {
             StorageError::NotFound { what } => {
                 ApiError::new(StatusCode::NOT_FOUND, "id", format!("no such {what}"))
             }
-            StorageError::Conflict { .. } => {
-                ApiError::new(StatusCode::CONFLICT, "revision", e.to_string())
-            }
+            StorageError::Conflict { revision, .. } => ApiError {
+                revision: Some(revision),
+                ..ApiError::new(StatusCode::CONFLICT, "revision", e.to_string())
+            },
             StorageError::Invalid(m) => ApiError::new(StatusCode::UNPROCESSABLE_ENTITY, "", m),
             StorageError::Closed(m) => ApiError::new(StatusCode::CONFLICT, "status", m),
             other => {
@@ -121,7 +125,10 @@ impl From<StorageError> for ApiError {
 
 impl IntoResponse for ApiError {
     fn into_response(self) -> Response {
-        let body = json!({ "error": { "path": self.path, "message": self.message } });
+        let mut body = json!({ "error": { "path": self.path, "message": self.message } });
+        if let Some(rev) = self.revision {
+            body["error"]["revision"] = json!(rev);
+        }
         (self.status, axum::Json(body)).into_response()
     }
 }

@@ -142,6 +142,17 @@ async fn post_then_put_with_if_match_and_the_conflict_rules() {
             .unwrap()
             .contains("changed by eve")
     );
+    let current: i64 = ok.headers["etag"]
+        .to_str()
+        .unwrap()
+        .trim_matches('"')
+        .parse()
+        .unwrap();
+    assert_eq!(
+        json(&stale.body)["error"]["revision"],
+        current,
+        "the 409 names the current revision"
+    );
     let now = app.api("GET", &path, Some(&token), &[], None).await;
     assert_eq!(json(&now.body)["name"], "Renamed by a script");
 }

@@ -160,9 +160,7 @@ async fn account_changes_are_recorded_without_the_password_hash() {
         )
         .await;
     assert_eq!(made.status, StatusCode::SEE_OTHER, "{}", made.body);
-    let role = app
-        .submit("/admin/users/nora/role", &ada, &[("role", "editor")])
-        .await;
+    let role = app.post_set_role(&ada, "nora", "editor").await;
     assert_eq!(role.status, StatusCode::SEE_OTHER, "{}", role.body);
     let rows = audit::account_history(&app.db).await.unwrap();
     let by_ada: Vec<&AuditRow> = rows.iter().filter(|r| r.actor == "ada").collect();

@@ -201,6 +201,27 @@ impl TestApp {
         self.submit("/admin/users", s, pairs).await
     }
 
+    /// Changes an account's role on its current revision (a fresh users page).
+    pub async fn post_set_role(&self, s: &Session, name: &str, role: &str) -> Resp {
+        let rev = accounts::find_user(&self.db, name)
+            .await
+            .unwrap()
+            .expect("the account exists")
+            .revision;
+        self.post_set_role_at(s, name, role, rev).await
+    }
+
+    /// Changes an account's role as made on a page showing revision `rev`.
+    pub async fn post_set_role_at(&self, s: &Session, name: &str, role: &str, rev: i64) -> Resp {
+        let rev = rev.to_string();
+        self.submit(
+            &format!("/admin/users/{name}/role"),
+            s,
+            &[("role", role), ("revision", &rev)],
+        )
+        .await
+    }
+
     // ---- studies ----
 
     pub async fn get_studies_page(&self, s: &Session) -> Resp {
@@ -246,8 +267,19 @@ impl TestApp {
         let revision = storage::studies::get_study(&self.db, id)
             .await
             .unwrap()
-            .revision
-            .to_string();
+            .revision;
+        self.post_import_candidates_at(s, id, revision, csv).await
+    }
+
+    /// A CSV import as made on an import page showing the study at revision `rev`.
+    pub async fn post_import_candidates_at(
+        &self,
+        s: &Session,
+        id: i64,
+        rev: i64,
+        csv: &str,
+    ) -> Resp {
+        let revision = rev.to_string();
         let path = format!("/studies/{id}/candidates/import");
         self.submit(
             &path,
@@ -326,6 +358,7 @@ impl TestApp {
             .await
     }
 
+    /// Moves a row "up" or "down" on its current revision (a fresh study page).
     pub async fn post_move_row(
         &self,
         s: &Session,
@@ -334,10 +367,33 @@ impl TestApp {
         row: i64,
         dir: &str,
     ) -> Resp {
+        let item = if list == "segments" {
+            storage::studies::Item::Segment
+        } else {
+            storage::studies::Item::Candidate
+        };
+        let rev = storage::studies::get_item(&self.db, item, id, row)
+            .await
+            .unwrap()
+            .revision;
+        self.post_move_row_at(s, id, list, row, dir, rev).await
+    }
+
+    /// Moves a row as done from a study page showing the row at revision `rev`.
+    pub async fn post_move_row_at(
+        &self,
+        s: &Session,
+        id: i64,
+        list: &str,
+        row: i64,
+        dir: &str,
+        rev: i64,
+    ) -> Resp {
+        let rev = rev.to_string();
         self.submit(
             &format!("/studies/{id}/{list}/{row}/move"),
             s,
-            &[("direction", dir)],
+            &[("direction", dir), ("revision", &rev)],
         )
         .await
     }

@@ -10,6 +10,7 @@ mod binary;
 mod browser;
 mod cli;
 mod compare;
+mod conflicts;
 mod crash;
 mod exports;
 mod forms;

@@ -172,7 +172,11 @@ async fn rows_are_inserted_updated_moved_and_deleted_with_revisions() {
         order(studies::list_items(&db, Item::Segment, id).await.unwrap()),
         ["a", "b", "c", "d"]
     );
-    studies::move_item(&db, Item::Segment, id, new, MoveDirection::Up, "ana")
+    let rev = studies::get_item(&db, Item::Segment, id, new)
+        .await
+        .unwrap()
+        .revision;
+    studies::move_item(&db, Item::Segment, id, new, rev, MoveDirection::Up, "ana")
         .await
         .unwrap();
     assert_eq!(

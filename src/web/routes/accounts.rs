@@ -242,6 +242,8 @@ async fn add_user(
 #[derive(Deserialize)]
 struct RoleForm {
     role: String,
+    /// The account's revision on the page the change was made from.
+    revision: i64,
 }
 
 async fn set_role(
@@ -256,6 +258,19 @@ async fn set_role(
             "role: you cannot remove your own admin role".into(),
         ));
     }
-    accounts::set_role_as(&state.db, &name, role, &user.username).await?;
-    Ok(Redirect::to("/admin/users").into_response())
+    let by = &user.username;
+    match accounts::set_role_checked(&state.db, &name, role, Some(form.revision), by).await {
+        Ok(()) => Ok(Redirect::to("/admin/users").into_response()),
+        Err(e @ crate::storage::StorageError::Conflict { .. }) => {
+            let now = accounts::find_user(&state.db, &name)
+                .await?
+                .ok_or(AppError::NotFound("no such user".into()))?;
+            Err(AppError::Conflict(format!(
+                "Nothing was changed: the account {name} was {e}. Its role is now {} \
+                 (revision {}).",
+                now.role, now.revision
+            )))
+        }
+        Err(e) => Err(e.into()),
+    }
 }

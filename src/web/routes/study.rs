@@ -65,6 +65,8 @@ struct StudyPage {
     updated_at: String,
     problem: Option<String>,
     header_error: Option<String>,
+    /// After a stale save: the study's own fields as stored now (pretty JSON).
+    stored_now: Option<String>,
     fields: Vec<FieldView>,
     preview_mass: String,
     segments: Vec<SegmentLine>,
@@ -177,6 +179,7 @@ async fn render(
     user: &CurrentUser,
     loaded: LoadedStudy,
     form: Option<(Values, Errors, Option<String>)>,
+    stored_now: Option<String>,
 ) -> Result<Response, AppError> {
     let (segments, preview_mass) = segment_lines(state, &loaded).await?;
     let candidates = candidate_lines(state, &loaded).await?;
@@ -196,6 +199,7 @@ async fn render(
         updated_at: loaded.row.updated_at.clone(),
         problem: loaded.problem.clone(),
         header_error,
+        stored_now,
         fields: forms::views(STUDY_HEADER, &values, &errors),
         preview_mass,
         segments,
@@ -212,7 +216,7 @@ async fn show_study(
     Path(id): Path<i64>,
 ) -> Result<Response, AppError> {
     let loaded = load_study(&state, id).await?;
-    render(&state, &user, loaded, None).await
+    render(&state, &user, loaded, None, None).await
 }
 
 fn checked_header(values: &Values, base: &StudyDoc) -> Result<StudyDoc, (Errors, Option<String>)> {
@@ -238,7 +242,11 @@ async fn update_study(
             {
                 Ok(_) => return Ok(Redirect::to(&format!("/studies/{id}")).into_response()),
                 Err(e @ StorageError::Conflict { .. }) => {
-                    ((Errors::new(), Some(e.to_string())), StatusCode::CONFLICT)
+                    let msg = format!(
+                        "Nothing was saved: this study was {e}. Your input is kept in the \
+                         form beside the study as stored now; saving again replaces it."
+                    );
+                    ((Errors::new(), Some(msg)), StatusCode::CONFLICT)
                 }
                 Err(e) => return Err(e.into()),
             }
@@ -249,7 +257,23 @@ async fn update_study(
     let general = failure
         .1
         .or_else(|| Some("Nothing was saved: see the marked fields.".into()));
-    let mut page = render(&state, &user, loaded, Some((values, failure.0, general))).await?;
+    // On a conflict, the study is read again: the page shows (and its form carries the
+    // revision of) what is stored now, not what was read before the save was tried.
+    let (loaded, stored_now) = if status == StatusCode::CONFLICT {
+        let loaded = load_study(&state, id).await?;
+        let mut header = loaded.doc.to_file_json();
+        if let Some(obj) = header.as_object_mut() {
+            obj.remove("segments");
+            obj.remove("candidates");
+        }
+        let pretty =
+            serde_json::to_string_pretty(&header).map_err(|e| AppError::Internal(e.to_string()))?;
+        (loaded, Some(pretty))
+    } else {
+        (loaded, None)
+    };
+    let form = Some((values, failure.0, general));
+    let mut page = render(&state, &user, loaded, form, stored_now).await?;
     *page.status_mut() = status;
     Ok(page)
 }

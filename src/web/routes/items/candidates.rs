@@ -128,7 +128,7 @@ pub(super) async fn move_candidate(
     Path((id, row)): Path<(i64, i64)>,
     Form(f): Form<MoveForm>,
 ) -> Result<Response, AppError> {
-    move_row(&state, &user, Item::Candidate, id, row, &f.direction).await
+    move_row(&state, &user, Item::Candidate, id, row, &f).await
 }
 
 pub(super) async fn delete_candidate(

@@ -82,6 +82,8 @@ struct ItemFormPage {
     kind: String,
     fields: Vec<FieldView>,
     general_error: Option<String>,
+    /// After a stale save: the row as stored now (pretty JSON), beside the user's input.
+    stored_now: Option<String>,
 }
 
 /// What a form is about: which list, which fields, and the row when editing.
@@ -116,6 +118,18 @@ pub(super) async fn form_page(
     errors: &Errors,
     general: Option<String>,
 ) -> Result<Response, AppError> {
+    form_page_with(state, user, t, values, errors, general, None).await
+}
+
+async fn form_page_with(
+    state: &AppState,
+    user: &CurrentUser,
+    t: &Target,
+    values: &Values,
+    errors: &Errors,
+    general: Option<String>,
+    stored_now: Option<String>,
+) -> Result<Response, AppError> {
     let study = studies::get_study(&state.db, t.study_id).await?;
     let page = ItemFormPage {
         nav: Nav::of(user),
@@ -127,13 +141,21 @@ pub(super) async fn form_page(
         kind: t.kind.clone(),
         fields: forms::views(t.fields, values, errors),
         general_error: general,
+        stored_now,
     };
     Ok(HtmlTemplate(page).into_response())
 }
 
-/// Why a save was refused: the field errors, a general message, and whether the row
-/// was changed by someone else since the form was loaded (a stale revision).
-type Refusal = (Errors, Option<String>, bool);
+/// A row changed by someone else since the form was loaded: its stored body now and
+/// its current revision.
+struct Stale {
+    body: Value,
+    revision: i64,
+}
+
+/// Why a save was refused: the field errors, a general message, and the row as
+/// stored now when the form's revision was stale.
+type Refusal = (Errors, Option<String>, Option<Stale>);
 
 /// Validates the new body with the whole study, then stores it.
 async fn save(
@@ -162,7 +184,7 @@ async fn save(
     }
     if let Err(e) = validate_doc(&doc) {
         let (errors, general) = place_error(&e, &format!("{name}[{index}]"), t.fields);
-        return Ok(Err((errors, general, false)));
+        return Ok(Err((errors, general, None)));
     }
     let stored = match t.row {
         Some((id, rev)) => studies::update_item(
@@ -183,7 +205,18 @@ async fn save(
     match stored {
         Ok(()) => Ok(Ok(())),
         Err(e @ StorageError::Conflict { .. }) => {
-            Ok(Err((Errors::new(), Some(e.to_string()), true)))
+            let (id, _) = t.row.ok_or(StorageError::NotFound { what: "row" })?;
+            let now = studies::get_item(&state.db, t.item, t.study_id, id).await?;
+            let stale = Stale {
+                body: now.json()?,
+                revision: now.revision,
+            };
+            let msg = format!(
+                "Nothing was saved: this row was {e}. Your input is kept below beside the \
+                 row as stored now (revision {}); saving again replaces the stored row.",
+                now.revision
+            );
+            Ok(Err((Errors::new(), Some(msg), Some(stale))))
         }
         Err(e) => Err(e.into()),
     }
@@ -192,26 +225,39 @@ async fn save(
 pub(super) async fn submit(
     state: &AppState,
     user: &CurrentUser,
-    t: Target,
+    mut t: Target,
     base: Value,
     values: Values,
 ) -> Result<Response, AppError> {
     let outcome = match forms::build_json(t.fields, &values, Some(&base)) {
         Ok(body) => save(state, user, &t, body).await?,
-        Err(errors) => Err((errors, None, false)),
+        Err(errors) => Err((errors, None, None)),
     };
     match outcome {
         Ok(()) => Ok(Redirect::to(&format!("/studies/{}", t.study_id)).into_response()),
         Err((errors, general, stale)) => {
             let general =
                 general.or_else(|| Some("Nothing was saved: see the marked fields.".into()));
-            let mut page = form_page(state, user, &t, &values, &errors, general).await?;
-            // A stale revision answers 409; a form re-shown with its errors 422.
-            *page.status_mut() = if stale {
+            // A stale revision answers 409 with the stored row, and the form now carries
+            // the current revision: saving again is a decision made on what is stored.
+            let status = if stale.is_some() {
                 axum::http::StatusCode::CONFLICT
             } else {
                 axum::http::StatusCode::UNPROCESSABLE_ENTITY
             };
+            let stored_now = match stale {
+                Some(Stale { body, revision }) => {
+                    t.row = t.row.map(|(id, _)| (id, revision));
+                    Some(
+                        serde_json::to_string_pretty(&body)
+                            .map_err(|e| AppError::Internal(e.to_string()))?,
+                    )
+                }
+                None => None,
+            };
+            let mut page =
+                form_page_with(state, user, &t, &values, &errors, general, stored_now).await?;
+            *page.status_mut() = status;
             Ok(page)
         }
     }
@@ -220,6 +266,8 @@ pub(super) async fn submit(
 #[derive(Deserialize)]
 pub(super) struct MoveForm {
     pub(super) direction: String,
+    /// The row's revision on the page the move was made from.
+    pub(super) revision: i64,
 }
 
 pub(super) async fn move_row(
@@ -228,9 +276,9 @@ pub(super) async fn move_row(
     item: Item,
     id: i64,
     row: i64,
-    dir: &str,
+    f: &MoveForm,
 ) -> Result<Response, AppError> {
-    let dir = match dir {
+    let dir = match f.direction.as_str() {
         "up" => MoveDirection::Up,
         "down" => MoveDirection::Down,
         other => {
@@ -239,7 +287,25 @@ pub(super) async fn move_row(
             )));
         }
     };
-    studies::move_item(&state.db, item, id, row, dir, &user.username).await?;
+    match studies::move_item(&state.db, item, id, row, f.revision, dir, &user.username).await {
+        Ok(()) => {}
+        Err(e @ StorageError::Conflict { .. }) => {
+            let rows = studies::list_items(&state.db, item, id).await?;
+            let (place, now) = rows
+                .iter()
+                .enumerate()
+                .find(|(_, r)| r.id == row)
+                .ok_or(StorageError::NotFound { what: "row" })?;
+            return Err(AppError::Conflict(format!(
+                "Nothing was moved: this row was {e}. It is now number {} of {}, at \
+                 revision {}.",
+                place + 1,
+                rows.len(),
+                now.revision
+            )));
+        }
+        Err(e) => return Err(e.into()),
+    }
     Ok(Redirect::to(&format!("/studies/{id}")).into_response())
 }
 
