@@ -80,7 +80,12 @@ pub fn run(runs: usize, designs: usize, sweep_designs: usize) {
     // Scored as a sweep scores them: every metric, four designs in lockstep per worker.
     let feasible: usize = family
         .par_chunks(16)
-        .map(|g| evaluate_lean_group(&ctx, g).iter().filter(|r| r.feasible).count())
+        .map(|g| {
+            evaluate_lean_group(&ctx, g)
+                .iter()
+                .filter(|r| r.feasible)
+                .count()
+        })
         .sum();
     let dt = t.elapsed();
     println!(

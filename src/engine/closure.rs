@@ -114,8 +114,21 @@ pub struct Closer {
 impl Closer {
     /// The closure of a motor of `motor_kg`, and the first mass to fly.
     pub fn start(ac: &AircraftConst, motor_kg: f64) -> (Closer, f64) {
-        let m = ac.airframe_kg + ac.payload_kg + ac.motors * motor_kg + ac.fixed_battery_kg.unwrap_or(0.0);
-        (Closer { ac: *ac, motor_kg, m, prev: None, evals: 0, at_mtom: false }, m)
+        let m = ac.airframe_kg
+            + ac.payload_kg
+            + ac.motors * motor_kg
+            + ac.fixed_battery_kg.unwrap_or(0.0);
+        (
+            Closer {
+                ac: *ac,
+                motor_kg,
+                m,
+                prev: None,
+                evals: 0,
+                at_mtom: false,
+            },
+            m,
+        )
     }
 
     /// Takes the flight at the mass last asked for and says what comes next.
@@ -123,7 +136,12 @@ impl Closer {
         let ac = &self.ac;
         let p = parts(ac, self.motor_kg, flight);
         if self.at_mtom {
-            return Next::Done(Closure { converged: false, takeoff_mass_kg: ac.mtom_kg, parts: p, iterations: self.evals });
+            return Next::Done(Closure {
+                converged: false,
+                takeoff_mass_kg: ac.mtom_kg,
+                parts: p,
+                iterations: self.evals,
+            });
         }
         self.evals += 1;
         let (m, g) = (self.m, p.sum_kg - self.m);
@@ -133,7 +151,12 @@ impl Closer {
             return Next::Fly(ac.mtom_kg);
         }
         if g.abs() < TOLERANCE_KG {
-            return Next::Done(Closure { converged: true, takeoff_mass_kg: p.sum_kg, parts: p, iterations: self.evals });
+            return Next::Done(Closure {
+                converged: true,
+                takeoff_mass_kg: p.sum_kg,
+                parts: p,
+                iterations: self.evals,
+            });
         }
         if g < 0.0 {
             // A secant step went past the root: step back to the last point below it.
@@ -145,7 +168,11 @@ impl Closer {
         let next = match self.prev {
             Some((m0, g0)) if g0 > g && m > m0 => {
                 let secant = m + g * (m - m0) / (g0 - g);
-                if secant.is_finite() && secant > p.sum_kg && secant <= ceiling { secant } else { p.sum_kg }
+                if secant.is_finite() && secant > p.sum_kg && secant <= ceiling {
+                    secant
+                } else {
+                    p.sum_kg
+                }
             }
             _ => p.sum_kg,
         };
@@ -157,7 +184,12 @@ impl Closer {
 
 /// Closes the mass of one design; `flight` then holds the flight at the closing mass (or
 /// at the maximum takeoff mass when it does not close).
-pub fn close(grid: &MissionGrid, prep: &Prepared, ac: &AircraftConst, flight: &mut Flight) -> Closure {
+pub fn close(
+    grid: &MissionGrid,
+    prep: &Prepared,
+    ac: &AircraftConst,
+    flight: &mut Flight,
+) -> Closure {
     let (mut closer, mut m) = Closer::start(ac, prep.model.mass_kg);
     loop {
         prep.fly(grid, m, flight, None);
@@ -177,8 +209,10 @@ pub fn close_lanes<const N: usize>(
     acs: [&AircraftConst; N],
     flights: &mut [Flight; N],
 ) -> [Closure; N] {
-    let mut closers: [Closer; N] = std::array::from_fn(|l| Closer::start(acs[l], preps[l].model.mass_kg).0);
-    let mut masses: [f64; N] = std::array::from_fn(|l| Closer::start(acs[l], preps[l].model.mass_kg).1);
+    let mut closers: [Closer; N] =
+        std::array::from_fn(|l| Closer::start(acs[l], preps[l].model.mass_kg).0);
+    let mut masses: [f64; N] =
+        std::array::from_fn(|l| Closer::start(acs[l], preps[l].model.mass_kg).1);
     let mut done: [Option<Closure>; N] = [None; N];
     let mut finals: [Option<Flight>; N] = std::array::from_fn(|_| None);
     while done.iter().any(Option::is_none) {

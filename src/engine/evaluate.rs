@@ -339,19 +339,45 @@ pub fn evaluate_lean_group(ctx: &StudyContext, cands: &[Candidate]) -> Vec<Candi
     }
     let mut groups = fixed.chunks_exact(LANES);
     for group in groups.by_ref() {
-        let preps: [Prepared; LANES] = std::array::from_fn(|l| Prepared::new(&group[l].2, group[l].1.drive, &ctx.grid));
+        let preps: [Prepared; LANES] =
+            std::array::from_fn(|l| Prepared::new(&group[l].2, group[l].1.drive, &ctx.grid));
         let mut flights: [Flight; LANES] = std::array::from_fn(|_| Flight::default());
-        let closures = closure::close_lanes(&ctx.grid, preps.each_ref(), std::array::from_fn(|l| &group[l].1.aircraft), &mut flights);
+        let closures = closure::close_lanes(
+            &ctx.grid,
+            preps.each_ref(),
+            std::array::from_fn(|l| &group[l].1.aircraft),
+            &mut flights,
+        );
         for (l, flight) in flights.into_iter().enumerate() {
             let (i, ev, model) = &group[l];
             let outcomes = checks::outcomes(model, &flight, &closures[l], &ev.limits);
-            let run = Run { closure: closures[l], flight, outcomes };
-            out[*i] = Some(report::assemble(ctx, &cands[*i], model, &run, None, Assumptions::quiet()));
+            let run = Run {
+                closure: closures[l],
+                flight,
+                outcomes,
+            };
+            out[*i] = Some(report::assemble(
+                ctx,
+                &cands[*i],
+                model,
+                &run,
+                None,
+                Assumptions::quiet(),
+            ));
         }
     }
     for (i, ev, model) in groups.remainder() {
         let run = ev.run(model);
-        out[*i] = Some(report::assemble(ctx, &cands[*i], model, &run, None, Assumptions::quiet()));
+        out[*i] = Some(report::assemble(
+            ctx,
+            &cands[*i],
+            model,
+            &run,
+            None,
+            Assumptions::quiet(),
+        ));
     }
-    out.into_iter().map(|r| r.unwrap_or_else(|| unreachable!("every candidate is scored"))).collect()
+    out.into_iter()
+        .map(|r| r.unwrap_or_else(|| unreachable!("every candidate is scored")))
+        .collect()
 }

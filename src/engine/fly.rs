@@ -163,14 +163,25 @@ impl<'a> Prepared<'a> {
     }
 
     /// Flies the nominal mission and every OEI run at takeoff mass `m`.
-    pub fn fly(&self, grid: &MissionGrid, m: f64, out: &mut Flight, trace: Option<&mut Vec<TracePoint>>) {
+    pub fn fly(
+        &self,
+        grid: &MissionGrid,
+        m: f64,
+        out: &mut Flight,
+        trace: Option<&mut Vec<TracePoint>>,
+    ) {
         fly_lanes([self], grid, [m], [out], trace);
     }
 }
 
 /// [`fly_lanes`] for four designs, compiled for AVX2 where the processor has it (the
 /// arithmetic is the same, lane by lane; only the instructions differ).
-pub fn fly_lanes_fast<const N: usize>(preps: [&Prepared; N], grid: &MissionGrid, m: [f64; N], outs: [&mut Flight; N]) {
+pub fn fly_lanes_fast<const N: usize>(
+    preps: [&Prepared; N],
+    grid: &MissionGrid,
+    m: [f64; N],
+    outs: [&mut Flight; N],
+) {
     #[cfg(target_arch = "x86_64")]
     {
         if std::arch::is_x86_feature_detected!("avx2") {
@@ -184,7 +195,12 @@ pub fn fly_lanes_fast<const N: usize>(preps: [&Prepared; N], grid: &MissionGrid,
 
 #[cfg(target_arch = "x86_64")]
 #[target_feature(enable = "avx2")]
-unsafe fn fly_lanes_avx2<const N: usize>(preps: [&Prepared; N], grid: &MissionGrid, m: [f64; N], outs: [&mut Flight; N]) {
+unsafe fn fly_lanes_avx2<const N: usize>(
+    preps: [&Prepared; N],
+    grid: &MissionGrid,
+    m: [f64; N],
+    outs: [&mut Flight; N],
+) {
     fly_lanes(preps, grid, m, outs, None);
 }
 
@@ -215,7 +231,18 @@ pub fn fly_lanes<const N: usize>(
     let mut time = 0.0;
     for (i, g) in grid.segments.iter().enumerate() {
         starts.push(state);
-        let stats = segment_lanes(&preps, g, i, &m, n, false, &mut state, &mut outs, &mut time, trace.as_deref_mut());
+        let stats = segment_lanes(
+            &preps,
+            g,
+            i,
+            &m,
+            n,
+            false,
+            &mut state,
+            &mut outs,
+            &mut time,
+            trace.as_deref_mut(),
+        );
         for (out, s) in outs.iter_mut().zip(stats) {
             out.battery_j += s.battery_j;
             out.prop_j += s.prop_j;
@@ -226,7 +253,18 @@ pub fn fly_lanes<const N: usize>(
         let mut st = starts[a];
         let mut t = grid.segments[..a].iter().map(|g| g.duration_s).sum::<f64>();
         for (i, g) in grid.segments.iter().enumerate().take(b + 1).skip(a) {
-            let stats = segment_lanes(&preps, g, i, &m, n - 1.0, true, &mut st, &mut outs, &mut t, trace.as_deref_mut());
+            let stats = segment_lanes(
+                &preps,
+                g,
+                i,
+                &m,
+                n - 1.0,
+                true,
+                &mut st,
+                &mut outs,
+                &mut t,
+                trace.as_deref_mut(),
+            );
             for (out, s) in outs.iter_mut().zip(stats) {
                 out.oei.push((i, s));
             }
@@ -295,7 +333,12 @@ impl<const N: usize> Lanes<N> {
             ab: std::array::from_fn(|l| {
                 let [[m00, m01], [m10, m11]] = preps[l].segs[i].prop;
                 let g2 = preps[l].kernel.inv_gws;
-                [1.0 - m00 - m01, (1.0 - m00) * g2, 1.0 - m10 - m11, -m10 * g2]
+                [
+                    1.0 - m00 - m01,
+                    (1.0 - m00) * g2,
+                    1.0 - m10 - m11,
+                    -m10 * g2,
+                ]
             }),
         }
     }
@@ -319,7 +362,8 @@ fn segment_lanes<const N: usize>(
     let dt = g.dt_s;
     let z = [0.0f64; N];
     // Accumulators live in lane arrays so that the loop keeps them in registers.
-    let (mut shaft, mut tq, mut cu_j, mut fe_j, mut mech_j, mut in_j, mut el_j, mut prop_j) = (z, z, z, z, z, z, z, z);
+    let (mut shaft, mut tq, mut cu_j, mut fe_j, mut mech_j, mut in_j, mut el_j, mut prop_j) =
+        (z, z, z, z, z, z, z, z);
     let (mut max_t, mut max_o, mut max_i) = (z, z, z);
     let mut pk_w: [f64; N] = std::array::from_fn(|l| st[l].winding);
     let mut pk_s: [f64; N] = std::array::from_fn(|l| st[l].stator);
@@ -355,7 +399,11 @@ fn segment_lanes<const N: usize>(
             let w_next = (m00 * w[l] + m01 * ss[l]) + aw * es + bw * cu;
             ss[l] = (m10 * w[l] + m11 * ss[l]) + a_s * es + b_s * cu;
             w[l] = w_next;
-            ov[l] = if torque > k.overload[l] { ov[l] + dt } else { 0.0 };
+            ov[l] = if torque > k.overload[l] {
+                ov[l] + dt
+            } else {
+                0.0
+            };
             shaft[l] += pm;
             tq[l] += torque;
             cu_j[l] += cu;
@@ -390,7 +438,11 @@ fn segment_lanes<const N: usize>(
     *time = t_now;
     std::array::from_fn(|l| {
         let c = &preps[l].segs[i];
-        st[l] = State { winding: w[l], stator: ss[l], overload_s: ov[l] };
+        st[l] = State {
+            winding: w[l],
+            stator: ss[l],
+            overload_s: ov[l],
+        };
         outs[l].max_elec_per_motor_w = max_el[l];
         outs[l].max_prop_torque_nm = max_pt[l];
         // Every step has the same length: the integrals are the sums times Δt.

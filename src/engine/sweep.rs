@@ -347,12 +347,15 @@ pub fn run(
         let rows: Vec<Option<CandidateResult>> = indices
             .par_chunks(GROUP)
             .flat_map_iter(|group| {
-                let designs: Vec<Candidate> = group.iter().map(|&i| sweep.raw_design(base, i)).collect();
+                let designs: Vec<Candidate> =
+                    group.iter().map(|&i| sweep.raw_design(base, i)).collect();
                 if cancel.load(Ordering::Relaxed) {
                     return vec![None; designs.len()];
                 }
-                let scored: Vec<Option<CandidateResult>> =
-                    evaluate_lean_group(&ctx, &designs).into_iter().map(Some).collect();
+                let scored: Vec<Option<CandidateResult>> = evaluate_lean_group(&ctx, &designs)
+                    .into_iter()
+                    .map(Some)
+                    .collect();
                 done.fetch_add(group.len(), Ordering::Relaxed);
                 scored
             })

@@ -3,7 +3,7 @@
 
 use axum::http::StatusCode;
 use axum::response::{Html, IntoResponse, Response};
-use serde_json::json;
+use serde_json::{Value, json};
 
 use crate::storage::StorageError;
 
@@ -90,6 +90,8 @@ pub struct ApiError {
     pub message: String,
     /// On a conflict: the row's current revision, so the caller can re-read and retry.
     pub revision: Option<i64>,
+    /// On a conflict: the values stored now (the study file), so nothing need be guessed.
+    pub current: Option<Value>,
 }
 
 impl ApiError {
@@ -99,6 +101,7 @@ impl ApiError {
             path: path.to_string(),
             message: message.into(),
             revision: None,
+            current: None,
         }
     }
 }
@@ -128,6 +131,9 @@ impl IntoResponse for ApiError {
         let mut body = json!({ "error": { "path": self.path, "message": self.message } });
         if let Some(rev) = self.revision {
             body["error"]["revision"] = json!(rev);
+        }
+        if let Some(current) = self.current {
+            body["error"]["current"] = current;
         }
         (self.status, axum::Json(body)).into_response()
     }

@@ -192,10 +192,15 @@ fn designs_flown_in_lockstep_score_exactly_as_one_by_one() {
     use shaftline::engine::evaluate::{evaluate_lean, evaluate_lean_group};
     let study = demo();
     let ctx = StudyContext::new(&study);
-    let sw = a1_sweep(&["outer_radius_m=0.11:0.19:5", "current_density_a_per_mm2=6:12:2"]);
+    let sw = a1_sweep(&[
+        "outer_radius_m=0.11:0.19:5",
+        "current_density_a_per_mm2=6:12:2",
+    ]);
     // Ten geometry designs, the datasheet and size-to-mission candidates of the demo:
     // two full lockstep groups, a remainder, and candidates that go one by one.
-    let mut cands: Vec<_> = (0..10).map(|i| sw.design(&study.candidates[2], i).unwrap()).collect();
+    let mut cands: Vec<_> = (0..10)
+        .map(|i| sw.design(&study.candidates[2], i).unwrap())
+        .collect();
     cands.extend(study.candidates.iter().cloned());
     let group = evaluate_lean_group(&ctx, &cands);
     assert_eq!(group.len(), cands.len());

@@ -153,6 +153,11 @@ async fn post_then_put_with_if_match_and_the_conflict_rules() {
         current,
         "the 409 names the current revision"
     );
+    assert_eq!(
+        json(&stale.body)["error"]["current"]["name"],
+        "Renamed by a script",
+        "the 409 carries the values stored now"
+    );
     let now = app.api("GET", &path, Some(&token), &[], None).await;
     assert_eq!(json(&now.body)["name"], "Renamed by a script");
 }

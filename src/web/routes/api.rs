@@ -14,6 +14,7 @@ use serde::Deserialize;
 use serde_json::{Value, json};
 
 use crate::engine::study::{Study, parse_study};
+use crate::storage::StorageError;
 use crate::storage::studies::{self, StudyDoc};
 use crate::web::AppState;
 use crate::web::auth::{ApiEditor, ApiViewer};
@@ -163,7 +164,19 @@ async fn replace_study(
     studies::get_study(&state.db, id).await?;
     let revision = if_match(&headers)?;
     let (_, doc) = parse_body(&body_bytes(body)?)?;
-    let new_rev = studies::replace_study(&state.db, id, revision, &doc, &user.username).await?;
+    let new_rev = match studies::replace_study(&state.db, id, revision, &doc, &user.username).await
+    {
+        Ok(rev) => rev,
+        Err(e @ StorageError::Conflict { .. }) => {
+            let mut err = ApiError::from(e);
+            err.current = studies::load_doc(&state.db, id)
+                .await
+                .ok()
+                .map(|(_, doc)| doc.to_file_json());
+            return Err(err);
+        }
+        Err(e) => return Err(e.into()),
+    };
     Ok((
         [etag(new_rev)],
         Json(json!({ "id": id.to_string(), "revision": new_rev })),
