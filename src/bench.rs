@@ -79,7 +79,7 @@ pub fn run(runs: usize, designs: usize, sweep_designs: usize) {
     let t = Instant::now();
     // Scored as a sweep scores them: every metric, four designs in lockstep per worker.
     let feasible: usize = family
-        .par_chunks(16)
+        .par_chunks(32)
         .map(|g| {
             evaluate_lean_group(&ctx, g)
                 .iter()

@@ -33,6 +33,13 @@ impl Assumptions {
         }
     }
 
+    /// A note written only when it will be kept.
+    pub fn note_with(&mut self, s: impl FnOnce() -> String) {
+        if !self.quiet {
+            self.note(s());
+        }
+    }
+
     pub fn note(&mut self, s: impl Into<String>) {
         if self.quiet {
             return;

@@ -170,11 +170,13 @@ fn loss_model(d: &DatasheetSource, t_rated: f64, w_cont: f64, a: &mut Assumption
             .map(|p| (p.speed_rpm * RPM, p.torque_nm, p.efficiency)),
     );
     if let Some(fit) = fit_losses(&points) {
-        a.note(format!(
-            "losses fitted to {} efficiency points (NNLS), RMS error {:.2} efficiency points",
-            points.len(),
-            100.0 * fit.rms_error.unwrap_or(0.0)
-        ));
+        a.note_with(|| {
+            format!(
+                "losses fitted to {} efficiency points (NNLS), RMS error {:.2} efficiency points",
+                points.len(),
+                100.0 * fit.rms_error.unwrap_or(0.0)
+            )
+        });
         return fit;
     }
     let loss = t_rated * w_cont * (1.0 / d.continuous_efficiency - 1.0);
@@ -189,7 +191,7 @@ fn loss_model(d: &DatasheetSource, t_rated: f64, w_cont: f64, a: &mut Assumption
         }
     };
     if !listed.is_empty() {
-        a.note(format!(
+        a.note_with(|| format!(
             "the {} listed efficiency points were not used: a fit needs ≥ 3 points over ≥ 2 speeds and ≥ 2 torques",
             listed.len()
         ));

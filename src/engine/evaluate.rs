@@ -319,7 +319,7 @@ pub fn evaluate_frozen(
 /// geometry mode) are flown four at a time in lockstep, with the same results as one by
 /// one; size-to-mission candidates and a remainder of fewer than four go one by one.
 pub fn evaluate_lean_group(ctx: &StudyContext, cands: &[Candidate]) -> Vec<CandidateResult> {
-    const LANES: usize = 4;
+    const LANES: usize = 16;
     let mut out: Vec<Option<CandidateResult>> = vec![None; cands.len()];
     let mut fixed: Vec<(usize, Evaluator, MotorModel)> = Vec::new();
     for (i, cand) in cands.iter().enumerate() {

@@ -62,8 +62,15 @@ pub fn assemble(
     let f = &run.flight;
     let c = &run.closure;
     let n = ctx.grid.motor_count as f64;
-    let violations = checks::violations(&run.outcomes, &ctx.grid);
-    let feasible = violations.is_empty();
+    // Lean rows (quiet assumptions: sweeps) carry the verdict and binding check but not
+    // the violation list, whose messages are the costliest text of a row.
+    let detail = !a.is_quiet();
+    let feasible = !run.outcomes.iter().any(|o| o.failed());
+    let violations = if detail {
+        checks::violations(&run.outcomes, &ctx.grid)
+    } else {
+        Vec::new()
+    };
     let binding = match (feasible, sized_binding) {
         (true, Some(label)) => Some(label),
         _ => checks::binding(&run.outcomes, |_| true).map(|o| o.label(&ctx.grid)),
@@ -106,7 +113,6 @@ pub fn assemble(
     let need_kwh = f.battery_j / 3.6e6;
     let margin_kwh = fixed.then(|| usable / 3.6e6 - need_kwh);
     let mass = model.mass_kg;
-    let detail = !a.is_quiet();
     CandidateResult {
         name: cand.name.clone(),
         kind: cand.source.kind_name().to_string(),

@@ -88,7 +88,7 @@ pub fn evaluate_sized(
     for factor in [1.05, 1.25] {
         let t = trial(ev, sc, factor * hi.scale);
         if !t.passes() {
-            a.note(format!(
+            a.note_with(|| format!(
                 "non-monotone: the torque/temperature checks fail again at {factor} × the sized scale ({})",
                 t.worst_eased.as_ref().map(|o| o.label(&ctx.grid)).unwrap_or_default()
             ));

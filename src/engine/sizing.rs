@@ -89,10 +89,7 @@ pub fn resolve(
 ) -> Result<SizingParams, String> {
     let p = c.pole_pairs as f64;
     let winding = c.winding.unwrap_or_else(|| {
-        a.note(format!(
-            "{} winding (default)",
-            winding_name(default_winding)
-        ));
+        a.note_with(|| format!("{} winding (default)", winding_name(default_winding)));
         default_winding
     });
     let cooling = c.cooling.unwrap_or_else(|| {
@@ -278,7 +275,7 @@ fn steel_coefficients(
         });
     }
     let name = c.steel_grade.clone().unwrap_or_else(|| {
-        a.note(format!("steel {} (default)", steel::DEFAULT_GRADE));
+        a.note_with(|| format!("steel {} (default)", steel::DEFAULT_GRADE));
         steel::DEFAULT_GRADE.to_string()
     });
     let grade = steel::find_grade(&name).ok_or_else(|| format!("unknown steel grade {name}"))?;

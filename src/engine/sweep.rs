@@ -16,7 +16,7 @@ pub const MAX_DESIGNS: usize = 100_000;
 /// Designs scored together before their rows are handed out in order.
 pub const CHUNK: usize = 4096;
 /// Designs handed to one worker at a time (a multiple of the four lockstep lanes).
-const GROUP: usize = 16;
+const GROUP: usize = 32;
 
 /// An input a sweep may vary.
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
