@@ -174,7 +174,7 @@ impl<'a> Prepared<'a> {
     }
 }
 
-/// [`fly_lanes`] for four designs, compiled for AVX2 where the processor has it (the
+/// [`fly_lanes`] for N designs, compiled for AVX2 where the processor has it (the
 /// arithmetic is the same, lane by lane; only the instructions differ).
 pub fn fly_lanes_fast<const N: usize>(
     preps: [&Prepared; N],

@@ -15,7 +15,7 @@ use std::sync::atomic::{AtomicBool, AtomicUsize, Ordering};
 pub const MAX_DESIGNS: usize = 100_000;
 /// Designs scored together before their rows are handed out in order.
 pub const CHUNK: usize = 4096;
-/// Designs handed to one worker at a time (a multiple of the four lockstep lanes).
+/// Designs handed to one worker at a time (a multiple of the sixteen lockstep lanes).
 const GROUP: usize = 32;
 
 /// An input a sweep may vary.
