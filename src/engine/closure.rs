@@ -1,7 +1,7 @@
 //! Mass closure (engine.md §8): the smallest takeoff mass at which the sum of the parts,
 //! after flying the mission at that mass, equals the mass flown.
 
-use super::fly::{Flight, Prepared};
+use super::fly::{Flight, GROUP, Group, Prepared};
 use super::mission::MissionGrid;
 use super::study::{BatteryMode, Study};
 
@@ -200,24 +200,25 @@ pub fn close(
     }
 }
 
-/// Closes the masses of N designs together: each keeps its own closure, and every round
-/// flies them all in lockstep (a design already closed flies along unused). Each
-/// `flights[l]` then holds design l's final flight, as [`close`] would leave it.
-pub fn close_lanes<const N: usize>(
+/// Closes the masses of a lockstep group of designs together: each keeps its own
+/// closure, and every round flies them all in lockstep (a design already closed flies
+/// along unused). Each `flights[l]` then holds design l's final flight, as [`close`]
+/// would leave it.
+pub fn close_group(
     grid: &MissionGrid,
-    preps: [&Prepared; N],
-    acs: [&AircraftConst; N],
-    flights: &mut [Flight; N],
-) -> [Closure; N] {
-    let mut closers: [Closer; N] =
-        std::array::from_fn(|l| Closer::start(acs[l], preps[l].model.mass_kg).0);
-    let mut masses: [f64; N] =
-        std::array::from_fn(|l| Closer::start(acs[l], preps[l].model.mass_kg).1);
-    let mut done: [Option<Closure>; N] = [None; N];
-    let mut finals: [Option<Flight>; N] = std::array::from_fn(|_| None);
+    group: &Group,
+    acs: [&AircraftConst; GROUP],
+    flights: &mut [Flight; GROUP],
+) -> [Closure; GROUP] {
+    let starts: [(Closer, f64); GROUP] =
+        std::array::from_fn(|l| Closer::start(acs[l], group.prepared(l).model.mass_kg));
+    let mut closers: [Closer; GROUP] = std::array::from_fn(|l| starts[l].0);
+    let mut masses: [f64; GROUP] = std::array::from_fn(|l| starts[l].1);
+    let mut done: [Option<Closure>; GROUP] = [None; GROUP];
+    let mut finals: [Option<Flight>; GROUP] = std::array::from_fn(|_| None);
     while done.iter().any(Option::is_none) {
-        super::fly::fly_lanes_fast(preps, grid, masses, flights.each_mut());
-        for l in 0..N {
+        group.fly(grid, masses, flights.each_mut());
+        for l in 0..GROUP {
             if done[l].is_some() {
                 continue;
             }
@@ -225,7 +226,9 @@ pub fn close_lanes<const N: usize>(
                 Next::Fly(m) => masses[l] = m,
                 Next::Done(c) => {
                     done[l] = Some(c);
-                    finals[l] = Some(flights[l].clone());
+                    if done.iter().any(Option::is_none) {
+                        finals[l] = Some(flights[l].clone());
+                    }
                 }
             }
         }

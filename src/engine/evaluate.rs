@@ -5,7 +5,7 @@ use super::assume::Assumptions;
 use super::checks::{self, Limits, Outcome};
 use super::closure::{self, AircraftConst, Closure};
 use super::datasheet;
-use super::fly::{Drive, Flight, Prepared};
+use super::fly::{Drive, Flight, GROUP, Group, Prepared};
 use super::mission::MissionGrid;
 use super::motor::{MotorModel, Sink};
 use super::results::CandidateResult;
@@ -319,7 +319,7 @@ pub fn evaluate_frozen(
 /// geometry mode) are flown sixteen at a time in lockstep, with the same results as one by
 /// one; size-to-mission candidates and a remainder of fewer than sixteen go one by one.
 pub fn evaluate_lean_group(ctx: &StudyContext, cands: &[Candidate]) -> Vec<CandidateResult> {
-    const LANES: usize = 16;
+    const LANES: usize = GROUP;
     let mut out: Vec<Option<CandidateResult>> = vec![None; cands.len()];
     let mut fixed: Vec<(usize, Evaluator, MotorModel)> = Vec::new();
     for (i, cand) in cands.iter().enumerate() {
@@ -341,10 +341,11 @@ pub fn evaluate_lean_group(ctx: &StudyContext, cands: &[Candidate]) -> Vec<Candi
     for group in groups.by_ref() {
         let preps: [Prepared; LANES] =
             std::array::from_fn(|l| Prepared::new(&group[l].2, group[l].1.drive, &ctx.grid));
+        let lanes = Group::new(preps.each_ref());
         let mut flights: [Flight; LANES] = std::array::from_fn(|_| Flight::default());
-        let closures = closure::close_lanes(
+        let closures = closure::close_group(
             &ctx.grid,
-            preps.each_ref(),
+            &lanes,
             std::array::from_fn(|l| &group[l].1.aircraft),
             &mut flights,
         );

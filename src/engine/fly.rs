@@ -1,8 +1,9 @@
 //! Flying one candidate through the mission at one takeoff mass (engine.md §2, §5–§7):
 //! the time-stepped loop with per-design constants prepared once, allocating nothing.
 
-use super::mission::{MissionGrid, SegmentGrid, StepPoint};
+use super::mission::{MissionGrid, SegmentGrid};
 use super::motor::{CurrentModel, LossModel, MotorModel, Sink, ThermalModel};
+use super::simd::Vf;
 
 /// Drive-train and aircraft constants of one candidate.
 #[derive(Debug, Clone, Copy, PartialEq)]
@@ -62,8 +63,8 @@ struct Kernel {
 pub struct Prepared<'a> {
     pub model: &'a MotorModel,
     pub drive: Drive,
-    kernel: Kernel,
     segs: Vec<SegConst>,
+    pack: Pack<1>,
 }
 
 /// Accumulated figures of one segment (nominal or one motor out), per motor unless noted.
@@ -121,44 +122,21 @@ pub struct TracePoint {
     pub speed_rad_s: f64,
 }
 
-#[derive(Debug, Clone, Copy)]
-struct State {
-    winding: f64,
-    stator: f64,
-    overload_s: f64,
-}
-
 impl<'a> Prepared<'a> {
     pub fn new(model: &'a MotorModel, drive: Drive, grid: &MissionGrid) -> Prepared<'a> {
-        let segs = grid
+        let segs: Vec<SegConst> = grid
             .segments
             .iter()
             .map(|g| seg_const(model, &drive, g))
             .collect();
+        let kernel = kernel(model);
+        let mut pack = Pack::<1>::empty(segs.len());
+        pack.set_lane(0, model, &drive, &kernel, &segs, grid);
         Prepared {
             model,
             drive,
-            kernel: kernel(model),
             segs,
-        }
-    }
-
-    fn sink(&self, s: &StepPoint) -> f64 {
-        match self.model.sink {
-            Sink::Air => s.air_temp_c,
-            Sink::Liquid(t) => t,
-        }
-    }
-
-    fn initial(&self, grid: &MissionGrid) -> State {
-        let t0 = self
-            .drive
-            .preflight_c
-            .unwrap_or_else(|| self.sink(&grid.segments[0].steps[0]));
-        State {
-            winding: t0,
-            stator: t0,
-            overload_s: 0.0,
+            pack,
         }
     }
 
@@ -170,52 +148,226 @@ impl<'a> Prepared<'a> {
         out: &mut Flight,
         trace: Option<&mut Vec<TracePoint>>,
     ) {
-        fly_lanes([self], grid, [m], [out], trace);
+        match trace {
+            Some(tr) => fly_kernel::<f64, 1, 1>(
+                &self.pack,
+                grid,
+                [m],
+                [out],
+                |time_s, segment, oei, w, s, torque| {
+                    tr.push(TracePoint {
+                        time_s,
+                        segment,
+                        oei,
+                        winding_c: w,
+                        stator_c: s,
+                        torque_nm: torque,
+                        speed_rad_s: self.segs[segment].omega,
+                    })
+                },
+            ),
+            None => fly_kernel::<f64, 1, 1>(&self.pack, grid, [m], [out], no_trace),
+        }
     }
 }
 
-/// [`fly_lanes`] for N designs, compiled for AVX2 where the processor has it (the
-/// arithmetic is the same, lane by lane; only the instructions differ).
-pub fn fly_lanes_fast<const N: usize>(
-    preps: [&Prepared; N],
-    grid: &MissionGrid,
-    m: [f64; N],
-    outs: [&mut Flight; N],
-) {
-    #[cfg(target_arch = "x86_64")]
-    {
-        if std::arch::is_x86_feature_detected!("avx2") {
-            // SAFETY: the processor was just found to support AVX2.
-            unsafe { fly_lanes_avx2(preps, grid, m, outs) };
-            return;
+/// The number of designs flown in lockstep by [`Group`].
+pub const GROUP: usize = 16;
+
+/// [`GROUP`] prepared designs laid out lane by lane, flown through the mission together.
+pub struct Group<'a> {
+    preps: [&'a Prepared<'a>; GROUP],
+    pack: Pack<GROUP>,
+}
+
+impl<'a> Group<'a> {
+    pub fn new(preps: [&'a Prepared<'a>; GROUP]) -> Group<'a> {
+        let mut pack = Pack::<GROUP>::empty(preps[0].pack.segs.len());
+        for (l, p) in preps.iter().enumerate() {
+            pack.copy_lane(l, &p.pack);
         }
+        Group { preps, pack }
     }
-    fly_lanes(preps, grid, m, outs, None);
+
+    pub fn prepared(&self, l: usize) -> &'a Prepared<'a> {
+        self.preps[l]
+    }
+
+    /// Flies every design of the group at its own takeoff mass; each lane gets the same
+    /// numbers as [`Prepared::fly`] would give it. Four designs share each AVX register
+    /// where the processor has AVX2.
+    pub fn fly(&self, grid: &MissionGrid, m: [f64; GROUP], outs: [&mut Flight; GROUP]) {
+        #[cfg(target_arch = "x86_64")]
+        {
+            if std::arch::is_x86_feature_detected!("avx2") {
+                // SAFETY: the processor was just found to support AVX2.
+                unsafe { fly_group_avx2(&self.pack, grid, m, outs) };
+                return;
+            }
+        }
+        fly_kernel::<f64, GROUP, GROUP>(&self.pack, grid, m, outs, no_trace);
+    }
 }
 
 #[cfg(target_arch = "x86_64")]
 #[target_feature(enable = "avx2")]
-unsafe fn fly_lanes_avx2<const N: usize>(
-    preps: [&Prepared; N],
+fn fly_group_avx2(
+    pack: &Pack<GROUP>,
     grid: &MissionGrid,
-    m: [f64; N],
-    outs: [&mut Flight; N],
+    m: [f64; GROUP],
+    outs: [&mut Flight; GROUP],
 ) {
-    fly_lanes(preps, grid, m, outs, None);
+    fly_kernel::<super::simd::F4, { GROUP / 4 }, GROUP>(pack, grid, m, outs, no_trace);
 }
 
-/// Flies N designs through the same mission in lockstep, lane by lane the same
-/// arithmetic as one design alone (so the results are identical); N independent
-/// dependency chains keep the processor busy and let the compiler vectorise across
-/// designs. `trace` records lane 0 only.
 #[inline(always)]
-pub fn fly_lanes<const N: usize>(
-    preps: [&Prepared; N],
+fn no_trace(_: f64, _: usize, _: bool, _: f64, _: f64, _: f64) {}
+
+/// Indices of the per-design constants of a [`Pack`].
+mod dk {
+    pub const SHAFT_DIV_NOMINAL: usize = 0;
+    pub const SHAFT_DIV_OEI: usize = 1;
+    pub const INV_ETA_INV: usize = 2;
+    pub const B0: usize = 3;
+    pub const ALPHA_BR: usize = 4;
+    pub const MAGNET_CAP: usize = 5;
+    pub const WINDING_CAP: usize = 6;
+    pub const CU0: usize = 7;
+    pub const CU1: usize = 8;
+    pub const CUR_NM: usize = 9;
+    pub const INV_GSC: usize = 10;
+    pub const AIR_W: usize = 11;
+    pub const SINK_C: usize = 12;
+    pub const INITIAL_C: usize = 13;
+    pub const ETA_B: usize = 14;
+    pub const COUNT: usize = 15;
+}
+
+/// Indices of the per-segment constants of a [`Pack`].
+mod sk {
+    pub const INV_OMEGA: usize = 0;
+    pub const IRON: usize = 1;
+    pub const OTHER: usize = 2;
+    pub const WIND: usize = 3;
+    pub const CUR_W: usize = 4;
+    pub const OVERLOAD: usize = 5;
+    pub const M00: usize = 6;
+    pub const M01: usize = 7;
+    pub const M10: usize = 8;
+    pub const M11: usize = 9;
+    pub const AW: usize = 10;
+    pub const BW: usize = 11;
+    pub const AS: usize = 12;
+    pub const BS: usize = 13;
+    /// Read once per segment, for its row.
+    pub const OMEGA: usize = 14;
+    pub const CAPABILITY: usize = 15;
+    pub const COUNT: usize = 16;
+}
+
+/// The constants of L designs, each one an array over the lanes, so that the step loop
+/// loads every constant of several designs with one instruction.
+#[derive(Clone)]
+struct Pack<const L: usize> {
+    design: [[f64; L]; dk::COUNT],
+    segs: Vec<[[f64; L]; sk::COUNT]>,
+}
+
+impl<const L: usize> Pack<L> {
+    fn empty(segments: usize) -> Self {
+        Pack {
+            design: [[0.0; L]; dk::COUNT],
+            segs: vec![[[0.0; L]; sk::COUNT]; segments],
+        }
+    }
+
+    fn copy_lane(&mut self, l: usize, one: &Pack<1>) {
+        for (d, s) in self.design.iter_mut().zip(&one.design) {
+            d[l] = s[0];
+        }
+        for (seg, one) in self.segs.iter_mut().zip(&one.segs) {
+            for (d, s) in seg.iter_mut().zip(one) {
+                d[l] = s[0];
+            }
+        }
+    }
+
+    fn set_lane(
+        &mut self,
+        l: usize,
+        model: &MotorModel,
+        drive: &Drive,
+        k: &Kernel,
+        segs: &[SegConst],
+        grid: &MissionGrid,
+    ) {
+        let alpha = super::materials::CU_ALPHA_PER_K;
+        let n = grid.motor_count as f64;
+        let initial = drive.preflight_c.unwrap_or(match model.sink {
+            Sink::Air => grid.segments[0].steps[0].air_temp_c,
+            Sink::Liquid(t) => t,
+        });
+        let d = &mut self.design;
+        d[dk::SHAFT_DIV_NOMINAL][l] = 1.0 / (n * drive.gear_efficiency);
+        d[dk::SHAFT_DIV_OEI][l] = 1.0 / ((n - 1.0) * drive.gear_efficiency);
+        d[dk::INV_ETA_INV][l] = 1.0 / drive.inverter_efficiency;
+        // b = 1 + α_Br(θ_s − 20) and ρ(θ_w) ∝ 1 + α_Cu(θ_w − 20) as one multiply-add each.
+        d[dk::B0][l] = 1.0 - 20.0 * k.alpha_br;
+        d[dk::ALPHA_BR][l] = k.alpha_br;
+        d[dk::MAGNET_CAP][l] = k.magnet_cap;
+        d[dk::WINDING_CAP][l] = k.winding_cap;
+        d[dk::CU0][l] = drive.loss_scale * k.cu_a * (1.0 - 20.0 * alpha);
+        d[dk::CU1][l] = drive.loss_scale * k.cu_a * alpha;
+        d[dk::CUR_NM][l] = k.current_per_nm;
+        d[dk::INV_GSC][l] = k.inv_gsc;
+        d[dk::AIR_W][l] = k.air_weight;
+        d[dk::SINK_C][l] = k.sink_const;
+        d[dk::INITIAL_C][l] = initial;
+        d[dk::ETA_B][l] = drive.battery_efficiency;
+        for (p, c) in self.segs.iter_mut().zip(segs) {
+            let [[m00, m01], [m10, m11]] = c.prop;
+            let g2 = k.inv_gws;
+            p[sk::INV_OMEGA][l] = 1.0 / c.omega;
+            p[sk::OMEGA][l] = c.omega;
+            p[sk::CAPABILITY][l] = c.capability_nm;
+            p[sk::IRON][l] = drive.loss_scale * c.iron_w;
+            p[sk::OTHER][l] = drive.loss_scale * c.other_w;
+            p[sk::WIND][l] = drive.loss_scale * c.wind_k;
+            p[sk::CUR_W][l] = c.current_per_w;
+            p[sk::OVERLOAD][l] = c.overload_nm;
+            p[sk::M00][l] = m00;
+            p[sk::M01][l] = m01;
+            p[sk::M10][l] = m10;
+            p[sk::M11][l] = m11;
+            // Exact step x' = x_eq + M·(x − x_eq), x_eq linear in the losses, regrouped
+            // so that only the loss terms wait for this step's losses.
+            p[sk::AW][l] = 1.0 - m00 - m01;
+            p[sk::BW][l] = (1.0 - m00) * g2;
+            p[sk::AS][l] = 1.0 - m10 - m11;
+            p[sk::BS][l] = -m10 * g2;
+        }
+    }
+}
+
+/// The thermal and overload state of K vectors of designs.
+#[derive(Clone, Copy)]
+struct State<V, const K: usize> {
+    winding: [V; K],
+    stator: [V; K],
+    overload_s: [V; K],
+}
+
+/// Flies the L = K·V::N designs of `pack` through the same mission in lockstep, each lane
+/// with exactly the arithmetic of one design alone. `trace` sees lane 0 at every step.
+#[inline(always)]
+fn fly_kernel<V: Vf, const K: usize, const L: usize>(
+    pack: &Pack<L>,
     grid: &MissionGrid,
-    m: [f64; N],
-    mut outs: [&mut Flight; N],
-    mut trace: Option<&mut Vec<TracePoint>>,
+    m: [f64; L],
+    mut outs: [&mut Flight; L],
+    mut trace: impl FnMut(f64, usize, bool, f64, f64, f64),
 ) {
+    assert_eq!(K * V::N, L, "lanes");
     for (out, m) in outs.iter_mut().zip(m) {
         out.mass_kg = m;
         out.nominal.clear();
@@ -226,22 +378,19 @@ pub fn fly_lanes<const N: usize>(
         out.max_prop_torque_nm = 0.0;
     }
     let n = grid.motor_count as f64;
-    let mut state: [State; N] = std::array::from_fn(|l| preps[l].initial(grid));
-    let mut starts: Vec<[State; N]> = Vec::with_capacity(grid.segments.len());
+    let init: [V; K] = std::array::from_fn(|j| V::load(&pack.design[dk::INITIAL_C], j * V::N));
+    let zero = [V::splat(0.0); K];
+    let mut state = State {
+        winding: init,
+        stator: init,
+        overload_s: zero,
+    };
+    let mut starts: Vec<State<V, K>> = Vec::with_capacity(grid.segments.len());
     let mut time = 0.0;
     for (i, g) in grid.segments.iter().enumerate() {
         starts.push(state);
-        let stats = segment_lanes(
-            &preps,
-            g,
-            i,
-            &m,
-            n,
-            false,
-            &mut state,
-            &mut outs,
-            &mut time,
-            trace.as_deref_mut(),
+        let stats = segment_kernel::<V, K, L>(
+            pack, g, i, &m, n, false, &mut state, &mut outs, &mut time, &mut trace,
         );
         for (out, s) in outs.iter_mut().zip(stats) {
             out.battery_j += s.battery_j;
@@ -253,8 +402,8 @@ pub fn fly_lanes<const N: usize>(
         let mut st = starts[a];
         let mut t = grid.segments[..a].iter().map(|g| g.duration_s).sum::<f64>();
         for (i, g) in grid.segments.iter().enumerate().take(b + 1).skip(a) {
-            let stats = segment_lanes(
-                &preps,
+            let stats = segment_kernel::<V, K, L>(
+                pack,
                 g,
                 i,
                 &m,
@@ -263,7 +412,7 @@ pub fn fly_lanes<const N: usize>(
                 &mut st,
                 &mut outs,
                 &mut t,
-                trace.as_deref_mut(),
+                &mut trace,
             );
             for (out, s) in outs.iter_mut().zip(stats) {
                 out.oei.push((i, s));
@@ -272,186 +421,148 @@ pub fn fly_lanes<const N: usize>(
     }
 }
 
-/// Per-lane constants of one segment, laid out lane-wise for the step loop.
-struct Lanes<const N: usize> {
-    shaft_div: [f64; N],
-    inv_omega: [f64; N],
-    inv_eta_inv: [f64; N],
-    inv_prop_omega: f64,
-    b0: [f64; N],
-    alpha_br: [f64; N],
-    magnet_cap: [f64; N],
-    winding_cap: [f64; N],
-    cu0: [f64; N],
-    cu1: [f64; N],
-    iron: [f64; N],
-    other: [f64; N],
-    wind: [f64; N],
-    cur_w: [f64; N],
-    cur_nm: [f64; N],
-    inv_gsc: [f64; N],
-    air_w: [f64; N],
-    sink_c: [f64; N],
-    overload: [f64; N],
-    m: [[f64; 4]; N],
-    ab: [[f64; 4]; N],
-}
-
-impl<const N: usize> Lanes<N> {
-    fn new(preps: &[&Prepared; N], g: &SegmentGrid, i: usize, n_active: f64) -> Self {
-        let f = |get: &dyn Fn(&Prepared, &SegConst, &Kernel) -> f64| -> [f64; N] {
-            std::array::from_fn(|l| get(preps[l], &preps[l].segs[i], &preps[l].kernel))
-        };
-        let alpha = super::materials::CU_ALPHA_PER_K;
-        Lanes {
-            shaft_div: f(&|p, _, _| 1.0 / (n_active * p.drive.gear_efficiency)),
-            inv_omega: f(&|_, c, _| 1.0 / c.omega),
-            inv_eta_inv: f(&|p, _, _| 1.0 / p.drive.inverter_efficiency),
-            inv_prop_omega: 1.0 / (n_active * g.prop_omega),
-            // b = 1 + α_Br(θ_s − 20) and ρ(θ_w) ∝ 1 + α_Cu(θ_w − 20) as one multiply-add each.
-            b0: f(&|_, _, k| 1.0 - 20.0 * k.alpha_br),
-            alpha_br: f(&|_, _, k| k.alpha_br),
-            magnet_cap: f(&|_, _, k| k.magnet_cap),
-            winding_cap: f(&|_, _, k| k.winding_cap),
-            cu0: f(&|p, _, k| p.drive.loss_scale * k.cu_a * (1.0 - 20.0 * alpha)),
-            cu1: f(&|p, _, k| p.drive.loss_scale * k.cu_a * alpha),
-            iron: f(&|p, c, _| p.drive.loss_scale * c.iron_w),
-            other: f(&|p, c, _| p.drive.loss_scale * c.other_w),
-            wind: f(&|p, c, _| p.drive.loss_scale * c.wind_k),
-            cur_w: f(&|_, c, _| c.current_per_w),
-            cur_nm: f(&|_, _, k| k.current_per_nm),
-            inv_gsc: f(&|_, _, k| k.inv_gsc),
-            air_w: f(&|_, _, k| k.air_weight),
-            sink_c: f(&|_, _, k| k.sink_const),
-            overload: f(&|_, c, _| c.overload_nm),
-            m: std::array::from_fn(|l| {
-                let [[a, b], [c, d]] = preps[l].segs[i].prop;
-                [a, b, c, d]
-            }),
-            // Exact step x' = x_eq + M·(x − x_eq), x_eq linear in the losses, regrouped
-            // so that only the loss terms wait for this step's losses.
-            ab: std::array::from_fn(|l| {
-                let [[m00, m01], [m10, m11]] = preps[l].segs[i].prop;
-                let g2 = preps[l].kernel.inv_gws;
-                [
-                    1.0 - m00 - m01,
-                    (1.0 - m00) * g2,
-                    1.0 - m10 - m11,
-                    -m10 * g2,
-                ]
-            }),
-        }
-    }
-}
-
 #[allow(clippy::too_many_arguments)]
 #[inline(always)]
-fn segment_lanes<const N: usize>(
-    preps: &[&Prepared; N],
+fn segment_kernel<V: Vf, const K: usize, const L: usize>(
+    pack: &Pack<L>,
     g: &SegmentGrid,
     i: usize,
-    m: &[f64; N],
+    m: &[f64; L],
     n_active: f64,
     oei: bool,
-    st: &mut [State; N],
-    outs: &mut [&mut Flight; N],
+    st: &mut State<V, K>,
+    outs: &mut [&mut Flight; L],
     time: &mut f64,
-    mut trace: Option<&mut Vec<TracePoint>>,
-) -> [SegStats; N] {
-    let k = Lanes::new(preps, g, i, n_active);
-    let dt = g.dt_s;
-    let z = [0.0f64; N];
+    trace: &mut impl FnMut(f64, usize, bool, f64, f64, f64),
+) -> [SegStats; L] {
+    let d = &pack.design;
+    let c = &pack.segs[i];
+    let ld = |k: usize, j: usize| V::load(&d[k], j * V::N);
+    let lc = |k: usize, j: usize| V::load(&c[k], j * V::N);
+    let shaft_div = if oei {
+        dk::SHAFT_DIV_OEI
+    } else {
+        dk::SHAFT_DIV_NOMINAL
+    };
+    let dt = V::splat(g.dt_s);
+    let floor = V::splat(g.floor_w);
+    let point_one = V::splat(0.1);
+    let mass: [V; K] = std::array::from_fn(|j| V::load(m, j * V::N));
+    let z = [V::splat(0.0); K];
     // Accumulators live in lane arrays so that the loop keeps them in registers.
-    let (mut shaft, mut tq, mut cu_j, mut fe_j, mut mech_j, mut in_j, mut el_j, mut prop_j) =
-        (z, z, z, z, z, z, z, z);
-    let (mut max_t, mut max_o, mut max_i) = (z, z, z);
-    let mut pk_w: [f64; N] = std::array::from_fn(|l| st[l].winding);
-    let mut pk_s: [f64; N] = std::array::from_fn(|l| st[l].stator);
-    let mut max_el: [f64; N] = std::array::from_fn(|l| outs[l].max_elec_per_motor_w);
-    let mut max_pt: [f64; N] = std::array::from_fn(|l| outs[l].max_prop_torque_nm);
-    let mut w: [f64; N] = std::array::from_fn(|l| st[l].winding);
-    let mut ss: [f64; N] = std::array::from_fn(|l| st[l].stator);
-    let mut ov: [f64; N] = std::array::from_fn(|l| st[l].overload_s);
-    let mut floored = [false; N];
+    let (mut shaft, mut tq, mut cu_j, mut fe_j, mut mech_j, mut in_j, mut prop_j) =
+        (z, z, z, z, z, z, z);
+    let (mut max_t, mut max_o, mut max_i, mut max_in, mut max_p) = (z, z, z, z, z);
+    let mut min_raw = [V::splat(f64::INFINITY); K];
+    let (mut w, mut ss, mut ov) = (st.winding, st.stator, st.overload_s);
+    let (mut pk_w, mut pk_s) = (w, ss);
     let mut t_now = *time;
     for p in &g.steps {
-        let c0 = if oei { p.c0_oei } else { p.c0 };
-        for l in 0..N {
-            let raw = c0 + m[l] * (p.c1 + m[l] * p.c2);
-            floored[l] |= raw < g.floor_w;
-            let power = fmax(raw, g.floor_w);
-            let pm = power * k.shaft_div[l];
-            let torque = pm * k.inv_omega[l];
-            let sink = k.air_w[l] * p.air_temp_c + k.sink_c[l];
-            let b = fmax(k.b0[l] + k.alpha_br[l] * fmin(ss[l], k.magnet_cap[l]), 0.1);
-            let inv_b = 1.0 / b;
+        let c0 = V::splat(if oei { p.c0_oei } else { p.c0 });
+        let (c1, c2) = (V::splat(p.c1), V::splat(p.c2));
+        let air = V::splat(p.air_temp_c);
+        let rho_nu02 = V::splat(p.rho_nu02);
+        let mut torque0 = 0.0;
+        for j in 0..K {
+            let mj = mass[j];
+            let raw = c0 + mj * (c1 + mj * c2);
+            min_raw[j] = min_raw[j].min(raw);
+            let power = raw.max(floor);
+            let pm = power * ld(shaft_div, j);
+            let torque = pm * lc(sk::INV_OMEGA, j);
+            let sink = ld(dk::AIR_W, j) * air + ld(dk::SINK_C, j);
+            let b = (ld(dk::B0, j) + ld(dk::ALPHA_BR, j) * ss[j].min(ld(dk::MAGNET_CAP, j)))
+                .max(point_one);
+            let inv_b = V::splat(1.0) / b;
             let tb = torque * inv_b;
-            let cu = (k.cu0[l] + k.cu1[l] * fmin(w[l], k.winding_cap[l])) * (tb * tb);
-            let fe = b * b * k.iron[l];
-            let mech = k.other[l] + k.wind[l] * p.rho_nu02;
+            let cu =
+                (ld(dk::CU0, j) + ld(dk::CU1, j) * w[j].min(ld(dk::WINDING_CAP, j))) * (tb * tb);
+            let fe = b * b * lc(sk::IRON, j);
+            let mech = lc(sk::OTHER, j) + lc(sk::WIND, j) * rho_nu02;
             let loss = cu + fe + mech;
             let input = pm + loss;
-            let elec = input * k.inv_eta_inv[l];
-            let current = input * k.cur_w[l] * inv_b + torque * k.cur_nm[l];
-            let es = sink + loss * k.inv_gsc[l];
-            let [m00, m01, m10, m11] = k.m[l];
-            let [aw, bw, a_s, b_s] = k.ab[l];
-            let w_next = (m00 * w[l] + m01 * ss[l]) + aw * es + bw * cu;
-            ss[l] = (m10 * w[l] + m11 * ss[l]) + a_s * es + b_s * cu;
-            w[l] = w_next;
-            ov[l] = if torque > k.overload[l] {
-                ov[l] + dt
-            } else {
-                0.0
-            };
-            shaft[l] += pm;
-            tq[l] += torque;
-            cu_j[l] += cu;
-            fe_j[l] += fe;
-            mech_j[l] += mech;
-            in_j[l] += input;
-            el_j[l] += elec;
-            prop_j[l] += power;
-            max_t[l] = fmax(max_t[l], torque);
-            max_o[l] = fmax(max_o[l], ov[l]);
-            max_i[l] = fmax(max_i[l], current);
-            pk_w[l] = fmax(pk_w[l], w[l]);
-            pk_s[l] = fmax(pk_s[l], ss[l]);
-            max_el[l] = fmax(max_el[l], elec);
-            max_pt[l] = fmax(max_pt[l], power * k.inv_prop_omega);
-            if l == 0
-                && let Some(tr) = trace.as_deref_mut()
-            {
-                tr.push(TracePoint {
-                    time_s: t_now + dt,
-                    segment: i,
-                    oei,
-                    winding_c: w[0],
-                    stator_c: ss[0],
-                    torque_nm: torque,
-                    speed_rad_s: preps[0].segs[i].omega,
-                });
+            let current = input * lc(sk::CUR_W, j) * inv_b + torque * ld(dk::CUR_NM, j);
+            let es = sink + loss * ld(dk::INV_GSC, j);
+            let w_next = (lc(sk::M00, j) * w[j] + lc(sk::M01, j) * ss[j])
+                + lc(sk::AW, j) * es
+                + lc(sk::BW, j) * cu;
+            ss[j] = (lc(sk::M10, j) * w[j] + lc(sk::M11, j) * ss[j])
+                + lc(sk::AS, j) * es
+                + lc(sk::BS, j) * cu;
+            w[j] = w_next;
+            ov[j] = torque.gt_or_zero(lc(sk::OVERLOAD, j), ov[j] + dt);
+            shaft[j] = shaft[j] + pm;
+            tq[j] = tq[j] + torque;
+            cu_j[j] = cu_j[j] + cu;
+            fe_j[j] = fe_j[j] + fe;
+            mech_j[j] = mech_j[j] + mech;
+            in_j[j] = in_j[j] + input;
+            prop_j[j] = prop_j[j] + power;
+            max_t[j] = max_t[j].max(torque);
+            max_o[j] = max_o[j].max(ov[j]);
+            max_i[j] = max_i[j].max(current);
+            max_in[j] = max_in[j].max(input);
+            max_p[j] = max_p[j].max(power);
+            pk_w[j] = pk_w[j].max(w[j]);
+            pk_s[j] = pk_s[j].max(ss[j]);
+            if j == 0 {
+                torque0 = torque.first();
             }
         }
-        t_now += dt;
+        t_now += g.dt_s;
+        trace(t_now, i, oei, w[0].first(), ss[0].first(), torque0);
     }
     *time = t_now;
+    *st = State {
+        winding: w,
+        stator: ss,
+        overload_s: ov,
+    };
+    let lanes = |v: &[V; K]| -> [f64; L] {
+        let mut a = [0.0; L];
+        for (j, x) in v.iter().enumerate() {
+            x.store(&mut a, j * V::N);
+        }
+        a
+    };
+    let (shaft, tq, cu_j, fe_j, mech_j, in_j, prop_j) = (
+        lanes(&shaft),
+        lanes(&tq),
+        lanes(&cu_j),
+        lanes(&fe_j),
+        lanes(&mech_j),
+        lanes(&in_j),
+        lanes(&prop_j),
+    );
+    let (max_t, max_o, max_i, max_in, max_p) = (
+        lanes(&max_t),
+        lanes(&max_o),
+        lanes(&max_i),
+        lanes(&max_in),
+        lanes(&max_p),
+    );
+    let (min_raw, pk_w, pk_s, w, ss) = (
+        lanes(&min_raw),
+        lanes(&pk_w),
+        lanes(&pk_s),
+        lanes(&w),
+        lanes(&ss),
+    );
+    let dt = g.dt_s;
+    let inv_prop_omega = 1.0 / (n_active * g.prop_omega);
     std::array::from_fn(|l| {
-        let c = &preps[l].segs[i];
-        st[l] = State {
-            winding: w[l],
-            stator: ss[l],
-            overload_s: ov[l],
-        };
-        outs[l].max_elec_per_motor_w = max_el[l];
-        outs[l].max_prop_torque_nm = max_pt[l];
+        let inv_eta_inv = d[dk::INV_ETA_INV][l];
+        let out = &mut outs[l];
+        // max(x·c) = max(x)·c for c > 0: rounding is monotonic.
+        out.max_elec_per_motor_w = out.max_elec_per_motor_w.max(max_in[l] * inv_eta_inv);
+        out.max_prop_torque_nm = out.max_prop_torque_nm.max(max_p[l] * inv_prop_omega);
         // Every step has the same length: the integrals are the sums times Δt.
-        let elec_j = n_active * el_j[l] * dt;
+        let elec_j = n_active * (in_j[l] * inv_eta_inv) * dt;
         SegStats {
             duration_s: g.duration_s,
             motors: n_active,
-            omega: c.omega,
-            capability_nm: c.capability_nm,
+            omega: c[sk::OMEGA][l],
+            capability_nm: c[sk::CAPABILITY][l],
             shaft_j: shaft[l] * dt,
             torque_ns: tq[l] * dt,
             copper_j: cu_j[l] * dt,
@@ -459,7 +570,7 @@ fn segment_lanes<const N: usize>(
             mech_j: mech_j[l] * dt,
             input_j: in_j[l] * dt,
             elec_j,
-            battery_j: elec_j / preps[l].drive.battery_efficiency,
+            battery_j: elec_j / d[dk::ETA_B][l],
             prop_j: prop_j[l] * dt,
             max_torque_nm: max_t[l],
             max_overload_s: max_o[l],
@@ -468,7 +579,7 @@ fn segment_lanes<const N: usize>(
             peak_stator_c: pk_s[l],
             end_winding_c: w[l],
             end_stator_c: ss[l],
-            floor_applied: floored[l],
+            floor_applied: min_raw[l] < g.floor_w,
         }
     })
 }
@@ -569,15 +680,4 @@ fn kernel(model: &MotorModel) -> Kernel {
             model.magnet_limit_c.unwrap_or(f64::INFINITY),
         ),
     }
-}
-
-/// max for finite numbers: one instruction, where `f64::max` also orders NaN.
-#[inline(always)]
-fn fmax(a: f64, b: f64) -> f64 {
-    if a > b { a } else { b }
-}
-
-#[inline(always)]
-fn fmin(a: f64, b: f64) -> f64 {
-    if a < b { a } else { b }
 }

@@ -26,6 +26,7 @@ pub mod results;
 pub mod robust;
 pub mod score;
 mod search;
+mod simd;
 pub mod sized;
 pub mod sizing;
 pub mod steel;

@@ -331,17 +331,32 @@ pub fn run(
     sweep: &Sweep,
     done: &AtomicUsize,
     cancel: &AtomicBool,
+    emit: impl FnMut(usize, &[f64], &CandidateResult),
+) -> usize {
+    run_in_chunks(study, sweep, CHUNK, done, cancel, emit)
+}
+
+/// [`run`] with rows scored and handed out `chunk` designs at a time (memory grows with
+/// the chunk, not with the sweep); `cancel` is looked at before every chunk and every
+/// group of designs.
+pub fn run_in_chunks(
+    study: &Study,
+    sweep: &Sweep,
+    chunk: usize,
+    done: &AtomicUsize,
+    cancel: &AtomicBool,
     mut emit: impl FnMut(usize, &[f64], &CandidateResult),
 ) -> usize {
+    let chunk = chunk.max(1);
     let ctx = StudyContext::new(study);
     let base = &study.candidates[sweep.candidate_index];
     let n = sweep.len();
     let mut emitted = 0;
-    for start in (0..n).step_by(CHUNK) {
+    for start in (0..n).step_by(chunk) {
         if cancel.load(Ordering::Relaxed) {
             break;
         }
-        let end = (start + CHUNK).min(n);
+        let end = (start + chunk).min(n);
         // Groups of designs: fixed-size designs in a group are flown in lockstep.
         let indices: Vec<usize> = (start..end).collect();
         let rows: Vec<Option<CandidateResult>> = indices

@@ -65,23 +65,39 @@ fn a_larger_outer_radius_in_the_sweep_gives_more_rated_torque() {
 
 #[test]
 fn cancel_stops_the_work() {
+    // Cancelled as the first row comes out: the chunk already scored is handed out, and
+    // nothing after it is scored or emitted.
+    let study = demo();
+    let sw = a1_sweep(&["outer_radius_m=0.10:0.20:400"]);
+    let (done, cancel) = (AtomicUsize::new(0), AtomicBool::new(false));
+    let emitted = sweep::run_in_chunks(&study, &sw, 64, &done, &cancel, |_, _, _| {
+        cancel.store(true, Ordering::Relaxed)
+    });
+    assert_eq!(emitted, 64, "rows of the first chunk only");
+    assert_eq!(done.load(Ordering::Relaxed), 64, "designs scored");
+}
+
+#[test]
+fn a_cancel_from_another_thread_stops_the_work() {
     let study = demo();
     let sw = a1_sweep(&["outer_radius_m=0.10:0.20:400"]);
     let (done, cancel) = (AtomicUsize::new(0), AtomicBool::new(false));
     let emitted = std::thread::scope(|s| {
         s.spawn(|| {
-            while done.load(Ordering::Relaxed) < 5 {
+            while done.load(Ordering::Relaxed) == 0 {
                 std::thread::yield_now();
             }
             cancel.store(true, Ordering::Relaxed);
         });
-        sweep::run(&study, &sw, &done, &cancel, |_, _, _| {})
+        // Small chunks, so that the cancel lands before the last one whatever the timing.
+        sweep::run_in_chunks(&study, &sw, 8, &done, &cancel, |_, _, _| {
+            while !cancel.load(Ordering::Relaxed) {
+                std::thread::yield_now();
+            }
+        })
     });
-    assert!(
-        emitted < 400,
-        "a cancelled sweep emits fewer rows than its grid ({emitted})"
-    );
-    assert!(done.load(Ordering::Relaxed) < 400);
+    assert_eq!(emitted, 8, "rows of the first chunk only");
+    assert_eq!(done.load(Ordering::Relaxed), 8, "designs scored");
 }
 
 #[test]
@@ -193,12 +209,12 @@ fn designs_flown_in_lockstep_score_exactly_as_one_by_one() {
     let study = demo();
     let ctx = StudyContext::new(&study);
     let sw = a1_sweep(&[
-        "outer_radius_m=0.11:0.19:5",
+        "outer_radius_m=0.11:0.19:20",
         "current_density_a_per_mm2=6:12:2",
     ]);
-    // Ten geometry designs, the datasheet and size-to-mission candidates of the demo:
+    // Forty geometry designs, the datasheet and size-to-mission candidates of the demo:
     // two full lockstep groups, a remainder, and candidates that go one by one.
-    let mut cands: Vec<_> = (0..10)
+    let mut cands: Vec<_> = (0..40)
         .map(|i| sw.design(&study.candidates[2], i).unwrap())
         .collect();
     cands.extend(study.candidates.iter().cloned());
