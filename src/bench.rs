@@ -93,6 +93,7 @@ pub fn run(runs: usize, designs: usize, sweep_designs: usize) {
         dt.as_secs_f64(),
         designs as f64 / dt.as_secs_f64()
     );
+    kernel_figures(&s, &ctx, runs);
     sweep_figures(&s, sweep_designs);
     robustness_figures(&s);
     match peak_memory_kib() {
@@ -102,6 +103,63 @@ pub fn run(runs: usize, designs: usize, sweep_designs: usize) {
         ),
         None => println!("peak resident memory: not available on this system"),
     }
+}
+
+/// The step kernel alone: one lockstep group of A1 geometry designs flown at a fixed mass,
+/// one thread, in ns per design and step.
+fn kernel_figures(s: &Study, ctx: &StudyContext, runs: usize) {
+    use crate::engine::evaluate::evaluate_full;
+    use crate::engine::fly::{Flight, GROUP, Group, Prepared};
+    let built: Vec<_> = (0..GROUP)
+        .map(|l| {
+            let c = a1_geometry(s, 0.12 + 0.005 * l as f64);
+            let (_, model, drive) = evaluate_full(ctx, &c);
+            (model.expect("A1 geometry builds"), drive)
+        })
+        .collect();
+    let preps: Vec<Prepared> = built
+        .iter()
+        .map(|(m, d)| Prepared::new(m, *d, &ctx.grid))
+        .collect();
+    let group = Group::new(std::array::from_fn(|l| &preps[l]));
+    let mut flights: [Flight; GROUP] = std::array::from_fn(|_| Flight::default());
+    let steps: usize = ctx
+        .grid
+        .segments
+        .iter()
+        .map(|g| g.steps.len())
+        .sum::<usize>()
+        + ctx
+            .grid
+            .oei_runs
+            .iter()
+            .map(|&(a, b)| {
+                (a..=b)
+                    .map(|i| ctx.grid.segments[i].steps.len())
+                    .sum::<usize>()
+            })
+            .sum::<usize>();
+    let flights_per_run = 50;
+    let t = time(runs, || {
+        for _ in 0..flights_per_run {
+            group.fly(&ctx.grid, [800.0; GROUP], flights.each_mut());
+        }
+        std::hint::black_box(&flights);
+    });
+    let per = t.as_secs_f64() / (flights_per_run * GROUP * steps) as f64;
+    let mut one = Flight::default();
+    let t1 = time(runs, || {
+        for _ in 0..flights_per_run {
+            preps[0].fly(&ctx.grid, 800.0, &mut one, None);
+        }
+        std::hint::black_box(&one);
+    });
+    let per1 = t1.as_secs_f64() / (flights_per_run * steps) as f64;
+    println!(
+        "step kernel, one thread ({steps} steps per flight): lockstep {:.2} ns, alone {:.2} ns per design-step",
+        per * 1e9,
+        per1 * 1e9
+    );
 }
 
 /// The demo's A1 over R_o 0.10–0.20 m × λ 0.50–0.70 through the sweep path (rows

@@ -106,7 +106,8 @@ pub struct Closer {
     ac: AircraftConst,
     motor_kg: f64,
     m: f64,
-    prev: Option<(f64, f64)>,
+    /// The last two points below the root, (m, F(m) − m), older first.
+    prev: [Option<(f64, f64)>; 2],
     evals: usize,
     at_mtom: bool,
 }
@@ -123,7 +124,7 @@ impl Closer {
                 ac: *ac,
                 motor_kg,
                 m,
-                prev: None,
+                prev: [None; 2],
                 evals: 0,
                 at_mtom: false,
             },
@@ -160,26 +161,46 @@ impl Closer {
         }
         if g < 0.0 {
             // A secant step went past the root: step back to the last point below it.
-            let (m0, g0) = self.prev.unwrap_or((m, 0.0));
-            self.prev = None;
+            let (m0, g0) = self.prev[1].unwrap_or((m, 0.0));
+            self.prev = [None; 2];
             self.m = m0 + g0;
             return Next::Fly(self.m);
         }
-        let next = match self.prev {
-            Some((m0, g0)) if g0 > g && m > m0 => {
-                let secant = m + g * (m - m0) / (g0 - g);
-                if secant.is_finite() && secant > p.sum_kg && secant <= ceiling {
-                    secant
-                } else {
-                    p.sum_kg
-                }
-            }
-            _ => p.sum_kg,
-        };
-        self.prev = Some((m, g));
+        // The fixed-point step F(m), or an accelerated step beyond it that stays finite
+        // and below the ceiling (one past the root is caught by the next flight, g < 0).
+        let next = accelerated(self.prev, (m, g))
+            .into_iter()
+            .flatten()
+            .find(|&x| x.is_finite() && x > p.sum_kg && x <= ceiling)
+            .unwrap_or(p.sum_kg);
+        self.prev = [self.prev[1], Some((m, g))];
         self.m = next;
         Next::Fly(next)
     }
+}
+
+/// Accelerated next masses from the points below the root, rising towards it (m up, g
+/// down), best first: inverse quadratic interpolation of m(g) at g = 0 through the last
+/// three points, then the secant through the last two (engine.md §8 allows a secant step;
+/// the quadratic one is the same idea one order higher and, near the root, lands within
+/// the tolerance one flight sooner). `None` where the points do not rise to the root.
+fn accelerated(prev: [Option<(f64, f64)>; 2], (m, g): (f64, f64)) -> [Option<f64>; 2] {
+    let rising = |(ma, ga): (f64, f64), (mb, gb): (f64, f64)| ga > gb && mb > ma;
+    let secant = prev[1]
+        .filter(|&b| rising(b, (m, g)))
+        .map(|(m0, g0)| m + g * (m - m0) / (g0 - g));
+    let quadratic = match prev {
+        [Some(a), Some(b)] if rising(a, b) && rising(b, (m, g)) => {
+            let ((ma, ga), (mb, gb)) = (a, b);
+            Some(
+                ma * gb * g / ((ga - gb) * (ga - g))
+                    + mb * ga * g / ((gb - ga) * (gb - g))
+                    + m * ga * gb / ((g - ga) * (g - gb)),
+            )
+        }
+        _ => None,
+    };
+    [quadratic, secant]
 }
 
 /// Closes the mass of one design; `flight` then holds the flight at the closing mass (or

@@ -172,7 +172,7 @@ impl<'a> Prepared<'a> {
 }
 
 /// The number of designs flown in lockstep by [`Group`].
-pub const GROUP: usize = 16;
+pub const GROUP: usize = 8;
 
 /// [`GROUP`] prepared designs laid out lane by lane, flown through the mission together.
 pub struct Group<'a> {
@@ -256,9 +256,9 @@ mod sk {
     pub const M10: usize = 8;
     pub const M11: usize = 9;
     pub const AW: usize = 10;
-    pub const BW: usize = 11;
+    pub const QW: usize = 11;
     pub const AS: usize = 12;
-    pub const BS: usize = 13;
+    pub const QS: usize = 13;
     /// Read once per segment, for its row.
     pub const OMEGA: usize = 14;
     pub const CAPABILITY: usize = 15;
@@ -339,12 +339,17 @@ impl<const L: usize> Pack<L> {
             p[sk::M01][l] = m01;
             p[sk::M10][l] = m10;
             p[sk::M11][l] = m11;
-            // Exact step x' = x_eq + M·(x − x_eq), x_eq linear in the losses, regrouped
-            // so that only the loss terms wait for this step's losses.
-            p[sk::AW][l] = 1.0 - m00 - m01;
-            p[sk::BW][l] = (1.0 - m00) * g2;
-            p[sk::AS][l] = 1.0 - m10 - m11;
-            p[sk::BS][l] = -m10 * g2;
+            // Exact step x' = x_eq + M·(x − x_eq) with the equilibrium of the step's
+            // losses, θ_s,eq = sink + (P_cu + P_rest)/G_sc and θ_w,eq = θ_s,eq + P_cu/G_ws:
+            //   θ_w' = M00·θ_w + M01·θ_s + a_w·e0 + q_w·P_cu,
+            //   θ_s' = M10·θ_w + M11·θ_s + a_s·e0 + q_s·P_cu,
+            // with e0 = sink + P_rest/G_sc, a = 1 − row sum of M, q = a/G_sc + (coupling
+            // of P_cu through 1/G_ws), so that only one multiply-add waits for P_cu.
+            let (aw, a_s) = (1.0 - m00 - m01, 1.0 - m10 - m11);
+            p[sk::AW][l] = aw;
+            p[sk::QW][l] = aw * k.inv_gsc + (1.0 - m00) * g2;
+            p[sk::AS][l] = a_s;
+            p[sk::QS][l] = a_s * k.inv_gsc - m10 * g2;
         }
     }
 }
@@ -368,6 +373,7 @@ fn fly_kernel<V: Vf, const K: usize, const L: usize>(
     mut trace: impl FnMut(f64, usize, bool, f64, f64, f64),
 ) {
     assert_eq!(K * V::N, L, "lanes");
+    assert!(K <= 16, "at most sixteen vectors per lockstep group");
     for (out, m) in outs.iter_mut().zip(m) {
         out.mass_kg = m;
         out.nominal.clear();
@@ -447,12 +453,14 @@ fn segment_kernel<V: Vf, const K: usize, const L: usize>(
     let dt = V::splat(g.dt_s);
     let floor = V::splat(g.floor_w);
     let point_one = V::splat(0.1);
+    let one = V::splat(1.0);
     let mass: [V; K] = std::array::from_fn(|j| V::load(m, j * V::N));
     let z = [V::splat(0.0); K];
-    // Accumulators live in lane arrays so that the loop keeps them in registers.
-    let (mut shaft, mut tq, mut cu_j, mut fe_j, mut mech_j, mut in_j, mut prop_j) =
-        (z, z, z, z, z, z, z);
-    let (mut max_t, mut max_o, mut max_i, mut max_in, mut max_p) = (z, z, z, z, z);
+    // Only what cannot be had from other sums at the segment's end is accumulated per
+    // step: shaft power and torque follow from the propeller power (constant factors),
+    // the mechanical loss from Σ ρ·ν^0.2, the input from its parts.
+    let (mut cu_j, mut fe_j, mut prop_j) = (z, z, z);
+    let (mut max_o, mut max_i, mut max_in, mut max_p) = (z, z, z, z);
     let mut min_raw = [V::splat(f64::INFINITY); K];
     let (mut w, mut ss, mut ov) = (st.winding, st.stator, st.overload_s);
     let (mut pk_w, mut pk_s) = (w, ss);
@@ -462,53 +470,71 @@ fn segment_kernel<V: Vf, const K: usize, const L: usize>(
         let (c1, c2) = (V::splat(p.c1), V::splat(p.c2));
         let air = V::splat(p.air_temp_c);
         let rho_nu02 = V::splat(p.rho_nu02);
-        let mut torque0 = 0.0;
-        for j in 0..K {
-            let mj = mass[j];
-            let raw = c0 + mj * (c1 + mj * c2);
+        // Operation by operation over the K vectors, so that the K independent chains sit
+        // side by side in the instruction stream and overlap in the processor.
+        macro_rules! each {
+            ($j:ident => $e:expr) => {
+                for $j in 0..K {
+                    $e;
+                }
+            };
+        }
+        let v = || [V::splat(0.0); K];
+        let (mut power, mut pm, mut torque, mut b, mut inv_b) = (v(), v(), v(), v(), v());
+        let (mut cu, mut rest, mut input, mut current, mut e0) = (v(), v(), v(), v(), v());
+        each!(j => {
+            let raw = c0 + mass[j] * (c1 + mass[j] * c2);
             min_raw[j] = min_raw[j].min(raw);
-            let power = raw.max(floor);
-            let pm = power * ld(shaft_div, j);
-            let torque = pm * lc(sk::INV_OMEGA, j);
-            let sink = ld(dk::AIR_W, j) * air + ld(dk::SINK_C, j);
-            let b = (ld(dk::B0, j) + ld(dk::ALPHA_BR, j) * ss[j].min(ld(dk::MAGNET_CAP, j)))
-                .max(point_one);
-            let inv_b = V::splat(1.0) / b;
-            let tb = torque * inv_b;
-            let cu =
-                (ld(dk::CU0, j) + ld(dk::CU1, j) * w[j].min(ld(dk::WINDING_CAP, j))) * (tb * tb);
-            let fe = b * b * lc(sk::IRON, j);
+            power[j] = raw.max(floor);
+        });
+        each!(j => pm[j] = power[j] * ld(shaft_div, j));
+        each!(j => torque[j] = pm[j] * lc(sk::INV_OMEGA, j));
+        // Flux derating from the stator temperature at the step's start.
+        each!(j => b[j] = (ld(dk::B0, j) + ld(dk::ALPHA_BR, j) * ss[j].min(ld(dk::MAGNET_CAP, j)))
+            .max(point_one));
+        each!(j => inv_b[j] = one / b[j]);
+        // Copper: (cu0 + cu1·θ_w)·T² / b², the temperature and torque terms formed while
+        // the division is under way.
+        each!(j => {
+            let coef = (ld(dk::CU0, j) + ld(dk::CU1, j) * w[j].min(ld(dk::WINDING_CAP, j)))
+                * (torque[j] * torque[j]);
+            cu[j] = coef * (inv_b[j] * inv_b[j]);
+        });
+        each!(j => {
+            let fe = b[j] * b[j] * lc(sk::IRON, j);
             let mech = lc(sk::OTHER, j) + lc(sk::WIND, j) * rho_nu02;
-            let loss = cu + fe + mech;
-            let input = pm + loss;
-            let current = input * lc(sk::CUR_W, j) * inv_b + torque * ld(dk::CUR_NM, j);
-            let es = sink + loss * ld(dk::INV_GSC, j);
-            let w_next = (lc(sk::M00, j) * w[j] + lc(sk::M01, j) * ss[j])
-                + lc(sk::AW, j) * es
-                + lc(sk::BW, j) * cu;
-            ss[j] = (lc(sk::M10, j) * w[j] + lc(sk::M11, j) * ss[j])
-                + lc(sk::AS, j) * es
-                + lc(sk::BS, j) * cu;
-            w[j] = w_next;
-            ov[j] = torque.gt_or_zero(lc(sk::OVERLOAD, j), ov[j] + dt);
-            shaft[j] = shaft[j] + pm;
-            tq[j] = tq[j] + torque;
-            cu_j[j] = cu_j[j] + cu;
             fe_j[j] = fe_j[j] + fe;
-            mech_j[j] = mech_j[j] + mech;
-            in_j[j] = in_j[j] + input;
-            prop_j[j] = prop_j[j] + power;
-            max_t[j] = max_t[j].max(torque);
+            rest[j] = fe + mech;
+        });
+        each!(j => {
+            let loss = cu[j] + rest[j];
+            input[j] = pm[j] + loss;
+            current[j] = input[j] * lc(sk::CUR_W, j) * inv_b[j] + torque[j] * ld(dk::CUR_NM, j);
+        });
+        // Exact thermal step (see `Pack::set_lane`): the parts that do not wait for the
+        // copper loss first, then one multiply-add of it per node.
+        each!(j => {
+            let sink = ld(dk::AIR_W, j) * air + ld(dk::SINK_C, j);
+            e0[j] = sink + rest[j] * ld(dk::INV_GSC, j);
+        });
+        each!(j => {
+            let pw = (lc(sk::M00, j) * w[j] + lc(sk::M01, j) * ss[j]) + lc(sk::AW, j) * e0[j];
+            let ps = (lc(sk::M10, j) * w[j] + lc(sk::M11, j) * ss[j]) + lc(sk::AS, j) * e0[j];
+            w[j] = pw + lc(sk::QW, j) * cu[j];
+            ss[j] = ps + lc(sk::QS, j) * cu[j];
+        });
+        each!(j => {
+            ov[j] = torque[j].gt_or_zero(lc(sk::OVERLOAD, j), ov[j] + dt);
+            cu_j[j] = cu_j[j] + cu[j];
+            prop_j[j] = prop_j[j] + power[j];
             max_o[j] = max_o[j].max(ov[j]);
-            max_i[j] = max_i[j].max(current);
-            max_in[j] = max_in[j].max(input);
-            max_p[j] = max_p[j].max(power);
+            max_i[j] = max_i[j].max(current[j]);
+            max_in[j] = max_in[j].max(input[j]);
+            max_p[j] = max_p[j].max(power[j]);
             pk_w[j] = pk_w[j].max(w[j]);
             pk_s[j] = pk_s[j].max(ss[j]);
-            if j == 0 {
-                torque0 = torque.first();
-            }
-        }
+        });
+        let torque0 = torque[0].first();
         t_now += g.dt_s;
         trace(t_now, i, oei, w[0].first(), ss[0].first(), torque0);
     }
@@ -525,22 +551,9 @@ fn segment_kernel<V: Vf, const K: usize, const L: usize>(
         }
         a
     };
-    let (shaft, tq, cu_j, fe_j, mech_j, in_j, prop_j) = (
-        lanes(&shaft),
-        lanes(&tq),
-        lanes(&cu_j),
-        lanes(&fe_j),
-        lanes(&mech_j),
-        lanes(&in_j),
-        lanes(&prop_j),
-    );
-    let (max_t, max_o, max_i, max_in, max_p) = (
-        lanes(&max_t),
-        lanes(&max_o),
-        lanes(&max_i),
-        lanes(&max_in),
-        lanes(&max_p),
-    );
+    let (cu_j, fe_j, prop_j) = (lanes(&cu_j), lanes(&fe_j), lanes(&prop_j));
+    let (max_o, max_i, max_in, max_p) =
+        (lanes(&max_o), lanes(&max_i), lanes(&max_in), lanes(&max_p));
     let (min_raw, pk_w, pk_s, w, ss) = (
         lanes(&min_raw),
         lanes(&pk_w),
@@ -550,29 +563,35 @@ fn segment_kernel<V: Vf, const K: usize, const L: usize>(
     );
     let dt = g.dt_s;
     let inv_prop_omega = 1.0 / (n_active * g.prop_omega);
+    let steps = g.steps.len() as f64;
+    let air_sum: f64 = g.steps.iter().map(|p| p.rho_nu02).sum();
     std::array::from_fn(|l| {
         let inv_eta_inv = d[dk::INV_ETA_INV][l];
+        let (shaft_div, inv_omega) = (d[shaft_div][l], c[sk::INV_OMEGA][l]);
         let out = &mut outs[l];
         // max(x·c) = max(x)·c for c > 0: rounding is monotonic.
         out.max_elec_per_motor_w = out.max_elec_per_motor_w.max(max_in[l] * inv_eta_inv);
         out.max_prop_torque_nm = out.max_prop_torque_nm.max(max_p[l] * inv_prop_omega);
         // Every step has the same length: the integrals are the sums times Δt.
-        let elec_j = n_active * (in_j[l] * inv_eta_inv) * dt;
+        let shaft = prop_j[l] * shaft_div;
+        let mech = c[sk::OTHER][l] * steps + c[sk::WIND][l] * air_sum;
+        let input = shaft + cu_j[l] + fe_j[l] + mech;
+        let elec_j = n_active * (input * inv_eta_inv) * dt;
         SegStats {
             duration_s: g.duration_s,
             motors: n_active,
             omega: c[sk::OMEGA][l],
             capability_nm: c[sk::CAPABILITY][l],
-            shaft_j: shaft[l] * dt,
-            torque_ns: tq[l] * dt,
+            shaft_j: shaft * dt,
+            torque_ns: shaft * inv_omega * dt,
             copper_j: cu_j[l] * dt,
             iron_j: fe_j[l] * dt,
-            mech_j: mech_j[l] * dt,
-            input_j: in_j[l] * dt,
+            mech_j: mech * dt,
+            input_j: input * dt,
             elec_j,
             battery_j: elec_j / d[dk::ETA_B][l],
             prop_j: prop_j[l] * dt,
-            max_torque_nm: max_t[l],
+            max_torque_nm: max_p[l] * shaft_div * inv_omega,
             max_overload_s: max_o[l],
             max_current_a: max_i[l],
             peak_winding_c: pk_w[l],
