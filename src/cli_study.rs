@@ -13,6 +13,7 @@ use rand::{RngExt, SeedableRng, rngs::StdRng};
 use crate::cli_engine::{OutputFormat, load_study};
 use crate::engine::results::{CandidateResult, METRICS};
 use crate::engine::{robust, sweep};
+use crate::export::number::push_f64;
 
 /// `shaftline sweep STUDY.json --candidate NAME --vary FIELD=FROM:TO:COUNT …`
 #[derive(Debug, Args)]
@@ -62,20 +63,6 @@ fn progress(label: &'static str, done: &AtomicUsize, total: usize, stop: &Atomic
     eprintln!("\r{label}: 100 % ({total} of {total})");
 }
 
-fn metric_cell(r: &CandidateResult, name: &str) -> String {
-    match name {
-        "mass_closure_converged" => r.mass_closure_converged.to_string(),
-        "rank" => String::new(),
-        _ => r.metric(name).map(|v| v.to_string()).unwrap_or_default(),
-    }
-}
-
-/// Where sweep rows go: CSV, or a JSON array of row objects.
-enum Rows<W: Write> {
-    Csv(Box<csv::Writer<W>>),
-    Json(W, bool),
-}
-
 pub fn run_sweep(args: &SweepArgs) -> anyhow::Result<()> {
     let study = load_study(&args.study)?;
     let axes: Vec<sweep::Axis> = args
@@ -91,89 +78,128 @@ pub fn run_sweep(args: &SweepArgs) -> anyhow::Result<()> {
         .map(|(n, _)| *n)
         .filter(|n| !matches!(*n, "rank" | "trade_score"))
         .collect();
-    let out = std::io::BufWriter::new(std::io::stdout().lock());
-    let mut rows = match args.format {
-        OutputFormat::Csv => {
-            let mut w = csv::Writer::from_writer(out);
-            let mut header = vec!["design"];
-            header.extend(&names);
-            header.extend(["feasible", "binding_constraint"]);
-            header.extend(&metrics);
-            w.write_record(&header)?;
-            Rows::Csv(Box::new(w))
-        }
-        OutputFormat::Json => Rows::Json(out, true),
-    };
+    let mut out = std::io::BufWriter::with_capacity(1 << 20, std::io::stdout().lock());
+    let csv = matches!(args.format, OutputFormat::Csv);
+    if csv {
+        let mut header = vec!["design"];
+        header.extend(&names);
+        header.extend(["feasible", "binding_constraint"]);
+        header.extend(&metrics);
+        out.write_all(&csv_line(header.iter().map(|h| h.as_bytes())))?;
+    }
     let (done, cancel, stop) = (
         AtomicUsize::new(0),
         AtomicBool::new(false),
         AtomicBool::new(false),
     );
     let mut io_error: Option<anyhow::Error> = None;
+    let mut first = true;
     std::thread::scope(|s| {
         s.spawn(|| progress("sweep", &done, sw.len(), &stop));
-        sweep::run(&study, &sw, &done, &cancel, |i, values, r| {
-            if let Err(e) = write_row(&mut rows, i, values, r, &names, &metrics) {
-                io_error.get_or_insert(e);
-                cancel.store(true, Ordering::Relaxed);
-            }
-        });
+        // Rows are formatted on the worker threads; this thread only writes them out.
+        sweep::run_mapped(
+            &study,
+            &sw,
+            sweep::CHUNK,
+            &done,
+            &cancel,
+            |i, values, r| match csv {
+                true => csv_row(i, values, &r, &metrics),
+                false => json_row(i, values, &r, &names, &metrics).into_bytes(),
+            },
+            |_, line| {
+                let res = if csv {
+                    out.write_all(&line)
+                } else {
+                    out.write_all(if first { b"[\n" } else { b",\n" })
+                        .and_then(|_| out.write_all(&line))
+                };
+                first = false;
+                if let Err(e) = res {
+                    io_error.get_or_insert(e.into());
+                    cancel.store(true, Ordering::Relaxed);
+                }
+            },
+        );
         stop.store(true, Ordering::Relaxed);
     });
     if let Some(e) = io_error {
         return Err(e);
     }
-    match rows {
-        Rows::Csv(mut w) => w.flush()?,
-        Rows::Json(mut w, first) => {
-            writeln!(w, "{}]", if first { "[" } else { "\n" })?;
-            w.flush()?;
-        }
+    if !csv {
+        out.write_all(if first { b"[]\n" } else { b"\n]\n" })?;
     }
+    out.flush()?;
     Ok(())
 }
 
-fn write_row<W: Write>(
-    rows: &mut Rows<W>,
+/// One CSV line (RFC 4180 quoting where a field needs it, as the `csv` crate writes it).
+fn csv_line<'a>(fields: impl Iterator<Item = &'a [u8]>) -> Vec<u8> {
+    let mut w = csv::WriterBuilder::new()
+        .buffer_capacity(1024)
+        .from_writer(Vec::with_capacity(1024));
+    // Writing to memory cannot fail.
+    w.write_record(fields).expect("in-memory CSV");
+    w.into_inner().expect("in-memory CSV")
+}
+
+/// A sweep row as one CSV line: the design number, the varied values, the verdict, the
+/// binding check and the metrics. Numbers print in their shortest round-trip form
+/// ([`push_f64`]); an absent metric is an empty field.
+fn csv_row(i: usize, values: &[f64], r: &CandidateResult, metrics: &[&str]) -> Vec<u8> {
+    use std::fmt::Write as _;
+    let mut text = String::with_capacity(800);
+    let mut ends: Vec<usize> = Vec::with_capacity(values.len() + metrics.len() + 3);
+    let _ = write!(text, "{}", i + 1);
+    ends.push(text.len());
+    for &v in values {
+        push_f64(&mut text, v);
+        ends.push(text.len());
+    }
+    let _ = write!(text, "{}", r.feasible);
+    ends.push(text.len());
+    text.push_str(r.binding_constraint.as_deref().unwrap_or(""));
+    ends.push(text.len());
+    for m in metrics {
+        match *m {
+            "mass_closure_converged" => {
+                let _ = write!(text, "{}", r.mass_closure_converged);
+            }
+            "rank" => {}
+            _ => {
+                if let Some(v) = r.metric(m) {
+                    push_f64(&mut text, v);
+                }
+            }
+        }
+        ends.push(text.len());
+    }
+    let bytes = text.as_bytes();
+    let starts = std::iter::once(0).chain(ends.iter().copied());
+    csv_line(starts.zip(ends.iter().copied()).map(|(a, b)| &bytes[a..b]))
+}
+
+fn json_row(
     i: usize,
     values: &[f64],
     r: &CandidateResult,
     names: &[&str],
     metrics: &[&str],
-) -> anyhow::Result<()> {
-    match rows {
-        Rows::Csv(w) => {
-            let mut row = vec![(i + 1).to_string()];
-            row.extend(values.iter().map(|v| v.to_string()));
-            row.push(r.feasible.to_string());
-            row.push(r.binding_constraint.clone().unwrap_or_default());
-            row.extend(metrics.iter().map(|m| metric_cell(r, m)));
-            w.write_record(&row)?;
-        }
-        Rows::Json(w, first) => {
-            let mut obj = serde_json::Map::new();
-            obj.insert("design".into(), (i + 1).into());
-            for (n, v) in names.iter().zip(values) {
-                obj.insert(n.to_string(), serde_json::json!(v));
-            }
-            obj.insert("feasible".into(), r.feasible.into());
-            obj.insert(
-                "binding_constraint".into(),
-                serde_json::json!(r.binding_constraint),
-            );
-            for m in metrics {
-                obj.insert(m.to_string(), serde_json::json!(r.metric(m)));
-            }
-            write!(
-                w,
-                "{}{}",
-                if *first { "[\n" } else { ",\n" },
-                serde_json::Value::Object(obj)
-            )?;
-            *first = false;
-        }
+) -> String {
+    let mut obj = serde_json::Map::new();
+    obj.insert("design".into(), (i + 1).into());
+    for (n, v) in names.iter().zip(values) {
+        obj.insert(n.to_string(), serde_json::json!(v));
     }
-    Ok(())
+    obj.insert("feasible".into(), r.feasible.into());
+    obj.insert(
+        "binding_constraint".into(),
+        serde_json::json!(r.binding_constraint),
+    );
+    for m in metrics {
+        obj.insert(m.to_string(), serde_json::json!(r.metric(m)));
+    }
+    serde_json::Value::Object(obj).to_string()
 }
 
 pub fn run_robustness(args: &RobustnessArgs) -> anyhow::Result<()> {

@@ -124,10 +124,11 @@ pub struct TracePoint {
 
 impl<'a> Prepared<'a> {
     pub fn new(model: &'a MotorModel, drive: Drive, grid: &MissionGrid) -> Prepared<'a> {
+        let windage = windage_geometry(model);
         let segs: Vec<SegConst> = grid
             .segments
             .iter()
-            .map(|g| seg_const(model, &drive, g))
+            .map(|g| seg_const(model, &drive, g, windage))
             .collect();
         let kernel = kernel(model);
         let mut pack = Pack::<1>::empty(segs.len());
@@ -603,7 +604,31 @@ fn segment_kernel<V: Vf, const K: usize, const L: usize>(
     })
 }
 
-fn seg_const(model: &MotorModel, drive: &Drive, g: &SegmentGrid) -> SegConst {
+/// The speed-free factor of the windage laws (§6): P_wind = ω^2.8 · ρ·ν^0.2 · this, W.
+/// Von Kármán's free-disc moment for each rotating disc face pair, and the Taylor–Couette
+/// cylinder in its gap where the rotor has one.
+fn windage_geometry(model: &MotorModel) -> f64 {
+    match &model.losses {
+        LossModel::Fitted { .. } => 0.0,
+        LossModel::Sized(s) => {
+            let discs: f64 = s
+                .disc_radii_m
+                .iter()
+                .map(|r| 0.5 * 0.146 * r.powf(4.6))
+                .sum();
+            let cylinder = s.cylinder.map_or(0.0, |cyl| {
+                std::f64::consts::PI
+                    * 0.0325
+                    * cyl.radius_m.powf(3.8)
+                    * cyl.length_m
+                    * cyl.gap_m.powf(-0.2)
+            });
+            discs + cylinder
+        }
+    }
+}
+
+fn seg_const(model: &MotorModel, drive: &Drive, g: &SegmentGrid, windage: f64) -> SegConst {
     let omega = g.prop_omega * drive.gear_ratio;
     let overload_nm = match model.overload {
         Some((p_cont, _)) => model.rated_torque_nm.min(p_cont / omega),
@@ -615,19 +640,7 @@ fn seg_const(model: &MotorModel, drive: &Drive, g: &SegmentGrid) -> SegConst {
         }
         LossModel::Sized(s) => {
             let f = s.pole_pairs * omega / (2.0 * std::f64::consts::PI);
-            let w28 = omega.powf(2.8);
-            let mut wind = 0.0;
-            for &r in &s.disc_radii_m {
-                wind += 0.5 * 0.146 * w28 * r.powf(4.6);
-            }
-            if let Some(cyl) = s.cylinder {
-                wind += std::f64::consts::PI
-                    * 0.0325
-                    * w28
-                    * cyl.radius_m.powf(3.8)
-                    * cyl.length_m
-                    * cyl.gap_m.powf(-0.2);
-            }
+            let wind = omega.powf(2.8) * windage;
             let emf = s.e_rms_base_v * omega.min(model.base_speed_rad_s) / model.base_speed_rad_s;
             let per_w = if model.current == CurrentModel::BackEmf {
                 1.0 / (3.0 * emf)

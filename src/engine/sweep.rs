@@ -15,7 +15,7 @@ use std::sync::atomic::{AtomicBool, AtomicUsize, Ordering};
 pub const MAX_DESIGNS: usize = 100_000;
 /// Designs scored together before their rows are handed out in order.
 pub const CHUNK: usize = 4096;
-/// Designs handed to one worker at a time (a multiple of the sixteen lockstep lanes).
+/// Designs handed to one worker at a time (a multiple of the lockstep group).
 const GROUP: usize = 32;
 
 /// An input a sweep may vary.
@@ -347,6 +347,29 @@ pub fn run_in_chunks(
     cancel: &AtomicBool,
     mut emit: impl FnMut(usize, &[f64], &CandidateResult),
 ) -> usize {
+    run_mapped(
+        study,
+        sweep,
+        chunk,
+        done,
+        cancel,
+        |_, _, r| r,
+        |i, r| emit(i, &sweep.values(i), &r),
+    )
+}
+
+/// The sweep with a `map` of each design's row run on the worker threads beside the
+/// scoring (formatting an output line, say), and `emit` called on the caller's thread with
+/// the mapped rows in grid order.
+pub fn run_mapped<T: Send>(
+    study: &Study,
+    sweep: &Sweep,
+    chunk: usize,
+    done: &AtomicUsize,
+    cancel: &AtomicBool,
+    map: impl Fn(usize, &[f64], CandidateResult) -> T + Sync,
+    mut emit: impl FnMut(usize, T),
+) -> usize {
     let chunk = chunk.max(1);
     let ctx = StudyContext::new(study);
     let base = &study.candidates[sweep.candidate_index];
@@ -359,25 +382,26 @@ pub fn run_in_chunks(
         let end = (start + chunk).min(n);
         // Groups of designs: fixed-size designs in a group are flown in lockstep.
         let indices: Vec<usize> = (start..end).collect();
-        let rows: Vec<Option<CandidateResult>> = indices
+        let rows: Vec<Option<T>> = indices
             .par_chunks(GROUP)
             .flat_map_iter(|group| {
+                if cancel.load(Ordering::Relaxed) {
+                    return group.iter().map(|_| None).collect::<Vec<_>>();
+                }
                 let designs: Vec<Candidate> =
                     group.iter().map(|&i| sweep.raw_design(base, i)).collect();
-                if cancel.load(Ordering::Relaxed) {
-                    return vec![None; designs.len()];
-                }
-                let scored: Vec<Option<CandidateResult>> = evaluate_lean_group(&ctx, &designs)
+                let scored: Vec<Option<T>> = evaluate_lean_group(&ctx, &designs)
                     .into_iter()
-                    .map(Some)
+                    .zip(group)
+                    .map(|(r, &i)| Some(map(i, &sweep.values(i), r)))
                     .collect();
                 done.fetch_add(group.len(), Ordering::Relaxed);
                 scored
             })
             .collect();
-        for (k, r) in rows.iter().enumerate() {
+        for (k, r) in rows.into_iter().enumerate() {
             if let Some(r) = r {
-                emit(start + k, &sweep.values(start + k), r);
+                emit(start + k, r);
                 emitted += 1;
             }
         }

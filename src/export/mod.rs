@@ -5,6 +5,7 @@
 //! column names; quoting follows RFC 4180 (CRLF line ends); text is UTF-8 without BOM.
 
 mod candidates;
+pub mod number;
 mod robustness;
 mod segments;
 mod summary;
