@@ -145,26 +145,32 @@ fn csv_line<'a>(fields: impl Iterator<Item = &'a [u8]>) -> Vec<u8> {
 
 /// A sweep row as one CSV line: the design number, the varied values, the verdict, the
 /// binding check and the metrics. Numbers print in their shortest round-trip form
-/// ([`push_f64`]); an absent metric is an empty field.
+/// ([`push_f64`]); an absent metric is an empty field. Only the binding check is text
+/// (it holds commas) and is quoted as [`csv_line`] would quote it.
 fn csv_row(i: usize, values: &[f64], r: &CandidateResult, metrics: &[&str]) -> Vec<u8> {
     use std::fmt::Write as _;
-    let mut text = String::with_capacity(800);
-    let mut ends: Vec<usize> = Vec::with_capacity(values.len() + metrics.len() + 3);
+    let mut text = String::with_capacity(900);
     let _ = write!(text, "{}", i + 1);
-    ends.push(text.len());
     for &v in values {
+        text.push(',');
         push_f64(&mut text, v);
-        ends.push(text.len());
     }
-    let _ = write!(text, "{}", r.feasible);
-    ends.push(text.len());
-    text.push_str(r.binding_constraint.as_deref().unwrap_or(""));
-    ends.push(text.len());
+    text.push_str(if r.feasible { ",true," } else { ",false," });
+    let binding = r.binding_constraint.as_deref().unwrap_or("");
+    if binding.contains([',', '"', '\r', '\n']) {
+        text.push('"');
+        text.push_str(&binding.replace('"', "\"\""));
+        text.push('"');
+    } else {
+        text.push_str(binding);
+    }
     for m in metrics {
+        text.push(',');
         match *m {
-            "mass_closure_converged" => {
-                let _ = write!(text, "{}", r.mass_closure_converged);
-            }
+            "mass_closure_converged" => text.push_str(match r.mass_closure_converged {
+                true => "true",
+                false => "false",
+            }),
             "rank" => {}
             _ => {
                 if let Some(v) = r.metric(m) {
@@ -172,11 +178,9 @@ fn csv_row(i: usize, values: &[f64], r: &CandidateResult, metrics: &[&str]) -> V
                 }
             }
         }
-        ends.push(text.len());
     }
-    let bytes = text.as_bytes();
-    let starts = std::iter::once(0).chain(ends.iter().copied());
-    csv_line(starts.zip(ends.iter().copied()).map(|(a, b)| &bytes[a..b]))
+    text.push('\n');
+    text.into_bytes()
 }
 
 fn json_row(

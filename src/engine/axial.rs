@@ -87,7 +87,7 @@ pub fn build(
         cylinder: None,
         g_ws,
         g_sc,
-        ..Default::default()
+        geometry: Vec::with_capacity(32),
     };
     for (k, v) in [
         ("outer_radius_m", r_o),
@@ -127,12 +127,13 @@ pub fn build(
 pub fn segment_slices(p: &SizingParams, r_i: f64, r_o: f64, w_s: f64, hs: f64) -> Vec<(f64, f64)> {
     let dr = (r_o - r_i) / IRON_SLICES as f64;
     let bm = p.magnet_field();
-    (0..IRON_SLICES)
-        .map(|k| {
-            let r = r_i + (k as f64 + 0.5) * dr;
-            let tau = 2.0 * PI * r / p.slots;
-            let mass = RHO_FE * p.k_fe * hs * (2.0 * PI * r - p.slots * w_s) * dr;
-            (mass, bm * tau / (p.k_fe * (tau - w_s)))
-        })
-        .collect()
+    // Room for the single-sided variant's yoke as well.
+    let mut slices = Vec::with_capacity(IRON_SLICES + 1);
+    slices.extend((0..IRON_SLICES).map(|k| {
+        let r = r_i + (k as f64 + 0.5) * dr;
+        let tau = 2.0 * PI * r / p.slots;
+        let mass = RHO_FE * p.k_fe * hs * (2.0 * PI * r - p.slots * w_s) * dr;
+        (mass, bm * tau / (p.k_fe * (tau - w_s)))
+    }));
+    slices
 }

@@ -342,7 +342,7 @@ pub fn evaluate_lean_group(ctx: &StudyContext, cands: &[Candidate]) -> Vec<Candi
         let preps: [Prepared; LANES] =
             std::array::from_fn(|l| Prepared::new(&group[l].2, group[l].1.drive, &ctx.grid));
         let lanes = Group::new(preps.each_ref());
-        let mut flights: [Flight; LANES] = std::array::from_fn(|_| Flight::default());
+        let mut flights: [Flight; LANES] = std::array::from_fn(|_| Flight::sized_for(&ctx.grid));
         let closures = closure::close_group(
             &ctx.grid,
             &lanes,

@@ -110,6 +110,18 @@ pub struct Flight {
     pub max_prop_torque_nm: f64,
 }
 
+impl Flight {
+    /// An empty flight with room for every segment row of `grid`'s mission.
+    pub fn sized_for(grid: &MissionGrid) -> Flight {
+        let oei = grid.oei_runs.iter().map(|&(a, b)| b + 1 - a).sum();
+        Flight {
+            nominal: Vec::with_capacity(grid.segments.len()),
+            oei: Vec::with_capacity(oei),
+            ..Flight::default()
+        }
+    }
+}
+
 /// A point of the temperature trace, for plots.
 #[derive(Debug, Clone, Copy, PartialEq)]
 pub struct TracePoint {

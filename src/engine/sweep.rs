@@ -338,7 +338,8 @@ pub fn run(
 
 /// [`run`] with rows scored and handed out `chunk` designs at a time (memory grows with
 /// the chunk, not with the sweep); `cancel` is looked at before every chunk and every
-/// group of designs.
+/// group of designs. The next chunk is scored while one is handed out, so at most one
+/// chunk more than was emitted has been scored when a cancel lands.
 pub fn run_in_chunks(
     study: &Study,
     sweep: &Sweep,
@@ -374,15 +375,11 @@ pub fn run_mapped<T: Send>(
     let ctx = StudyContext::new(study);
     let base = &study.candidates[sweep.candidate_index];
     let n = sweep.len();
-    let mut emitted = 0;
-    for start in (0..n).step_by(chunk) {
-        if cancel.load(Ordering::Relaxed) {
-            break;
-        }
+    let score = |start: usize| -> Vec<Option<T>> {
         let end = (start + chunk).min(n);
         // Groups of designs: fixed-size designs in a group are flown in lockstep.
         let indices: Vec<usize> = (start..end).collect();
-        let rows: Vec<Option<T>> = indices
+        indices
             .par_chunks(GROUP)
             .flat_map_iter(|group| {
                 if cancel.load(Ordering::Relaxed) {
@@ -398,13 +395,42 @@ pub fn run_mapped<T: Send>(
                 done.fetch_add(group.len(), Ordering::Relaxed);
                 scored
             })
-            .collect();
+            .collect()
+    };
+    let mut emitted = 0;
+    let mut hand_out = |start: usize, rows: Vec<Option<T>>| {
         for (k, r) in rows.into_iter().enumerate() {
             if let Some(r) = r {
                 emit(start + k, r);
                 emitted += 1;
             }
         }
+    };
+    // Chunk k + 1 is scored (on the worker threads, driven from a helper thread) while
+    // chunk k's rows are handed out here, so the workers never wait for the output.
+    let mut pending: Option<(usize, Vec<Option<T>>)> = None;
+    for start in (0..n).step_by(chunk) {
+        if cancel.load(Ordering::Relaxed) {
+            break;
+        }
+        let rows = std::thread::scope(|s| {
+            let next = s.spawn(|| score(start));
+            if let Some((at, rows)) = pending.take() {
+                hand_out(at, rows);
+            }
+            next.join()
+        });
+        match rows {
+            Ok(rows) => pending = Some((start, rows)),
+            Err(panic) => std::panic::resume_unwind(panic),
+        }
+    }
+    // Rows scored after a cancel are dropped: a chunk being handed out when the cancel
+    // comes is finished, nothing after it is.
+    if let Some((at, rows)) = pending.take()
+        && !cancel.load(Ordering::Relaxed)
+    {
+        hand_out(at, rows);
     }
     emitted
 }

@@ -18,7 +18,13 @@ pub fn push_f64(out: &mut String, v: f64) {
         return;
     }
     let mut buf = zmij::Buffer::new();
-    layout(buf.format_finite(v), out);
+    let text = buf.format_finite(v);
+    if text.as_bytes().contains(&b'e') {
+        layout(text, out);
+    } else {
+        // Plain already (1e-5 ≤ |v| < 1e16): only a whole number's ".0" goes.
+        out.push_str(text.strip_suffix(".0").unwrap_or(text));
+    }
 }
 
 /// Re-lays a shortest round-trip text in scientific or plain form (`-1.5e-7`, `2750.0`)
@@ -28,7 +34,7 @@ fn layout(text: &str, out: &mut String) {
         Some(rest) => (true, rest),
         None => (false, text),
     };
-    let (mantissa, exp) = match body.split_once(['e', 'E']) {
+    let (mantissa, exp) = match body.split_once('e') {
         Some((m, e)) => (m, e.trim_start_matches('+').parse::<i32>().unwrap_or(0)),
         None => (body, 0),
     };

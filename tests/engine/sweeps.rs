@@ -65,8 +65,8 @@ fn a_larger_outer_radius_in_the_sweep_gives_more_rated_torque() {
 
 #[test]
 fn cancel_stops_the_work() {
-    // Cancelled as the first row comes out: the chunk already scored is handed out, and
-    // nothing after it is scored or emitted.
+    // Cancelled as the first row comes out: that chunk is handed out in full, the one
+    // scored meanwhile is dropped, and nothing after it is scored.
     let study = demo();
     let sw = a1_sweep(&["outer_radius_m=0.10:0.20:400"]);
     let (done, cancel) = (AtomicUsize::new(0), AtomicBool::new(false));
@@ -74,7 +74,8 @@ fn cancel_stops_the_work() {
         cancel.store(true, Ordering::Relaxed)
     });
     assert_eq!(emitted, 64, "rows of the first chunk only");
-    assert_eq!(done.load(Ordering::Relaxed), 64, "designs scored");
+    let scored = done.load(Ordering::Relaxed);
+    assert!((64..=128).contains(&scored), "designs scored: {scored}");
 }
 
 #[test]
@@ -96,8 +97,9 @@ fn a_cancel_from_another_thread_stops_the_work() {
             }
         })
     });
-    assert_eq!(emitted, 8, "rows of the first chunk only");
-    assert_eq!(done.load(Ordering::Relaxed), 8, "designs scored");
+    assert!(emitted <= 8, "at most the first chunk's rows: {emitted}");
+    let scored = done.load(Ordering::Relaxed);
+    assert!((8..=16).contains(&scored), "designs scored: {scored}");
 }
 
 #[test]
