@@ -95,6 +95,7 @@ pub fn run(runs: usize, designs: usize, sweep_designs: usize) {
     );
     kernel_figures(&s, &ctx, runs);
     sweep_figures(&s, sweep_designs);
+    process_figures(&s, sweep_designs);
     robustness_figures(&s);
     match peak_memory_kib() {
         Some(kib) => println!(
@@ -183,6 +184,39 @@ fn sweep_figures(s: &Study, designs: usize) {
         "sweep of A1, {side} × {side} = {n} designs (R_o × λ, OEI and mass closure): {dt:.3} s, {:.0} designs/s ({feasible} feasible)",
         n as f64 / dt
     );
+}
+
+/// The same sweep as a separate `shaftline sweep` process, from start to exit, writing
+/// every CSV row (to the null device): the whole-process figure.
+fn process_figures(s: &Study, designs: usize) {
+    let side = (designs as f64).sqrt().round().max(2.0) as usize;
+    let file =
+        std::env::temp_dir().join(format!("shaftline-bench-{}.study.json", std::process::id()));
+    let run = || -> anyhow::Result<f64> {
+        std::fs::write(&file, crate::demo::DEMO_STUDY_JSON)?;
+        let t = Instant::now();
+        let status = std::process::Command::new(std::env::current_exe()?)
+            .arg("sweep")
+            .arg(&file)
+            .args(["--candidate", &find(s, "A1").name])
+            .args(["--vary", &format!("outer_radius_m=0.10:0.20:{side}")])
+            .args(["--vary", &format!("inner_outer_ratio=0.50:0.70:{side}")])
+            .stdout(std::process::Stdio::null())
+            .stderr(std::process::Stdio::null())
+            .status()?;
+        let dt = t.elapsed().as_secs_f64();
+        anyhow::ensure!(status.success(), "shaftline sweep exited with {status}");
+        Ok(dt)
+    };
+    let result = run();
+    let _ = std::fs::remove_file(&file);
+    match result {
+        Ok(dt) => println!(
+            "the same sweep as a process (shaftline sweep, CSV rows to the null device): {dt:.3} s, {:.0} designs/s",
+            (side * side) as f64 / dt
+        ),
+        Err(e) => println!("the same sweep as a process: not measured ({e})"),
+    }
 }
 
 fn robustness_figures(s: &Study) {

@@ -97,7 +97,7 @@ pub struct SegStats {
 }
 
 /// One flight at one takeoff mass.
-#[derive(Debug, Clone, Default)]
+#[derive(Debug, Clone, Default, PartialEq)]
 pub struct Flight {
     pub mass_kg: f64,
     pub nominal: Vec<SegStats>,
@@ -218,6 +218,12 @@ impl<'a> Group<'a> {
                 return;
             }
         }
+        self.fly_portable(grid, m, outs);
+    }
+
+    /// [`Group::fly`] without vector instructions (the path of processors without AVX2):
+    /// the same operations lane by lane, so the same numbers.
+    pub fn fly_portable(&self, grid: &MissionGrid, m: [f64; GROUP], outs: [&mut Flight; GROUP]) {
         fly_kernel::<f64, GROUP, GROUP>(&self.pack, grid, m, outs, no_trace);
     }
 }

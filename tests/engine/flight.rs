@@ -60,6 +60,43 @@ fn fly_candidate(i: usize, mass: f64) -> (Flight, f64, f64) {
 }
 
 #[test]
+fn a_lockstep_group_flies_every_lane_as_that_design_alone() {
+    // Every kind of the demo in one group (datasheet one-node, radial and axial two-node,
+    // air and liquid sinks, geared and direct), each at its own mass: the vector path,
+    // the portable path and the one-design path give the same numbers to the last bit.
+    use shaftline::engine::fly::{GROUP, Group};
+    let study = demo();
+    let ctx = StudyContext::new(&study);
+    let built: Vec<_> = (0..GROUP)
+        .map(|l| {
+            let c = &study.candidates[l % study.candidates.len()];
+            let (_, model, drive) = shaftline::engine::evaluate::evaluate_full(&ctx, c);
+            (model.unwrap(), drive)
+        })
+        .collect();
+    let preps: Vec<Prepared> = built
+        .iter()
+        .map(|(m, d)| Prepared::new(m, *d, &ctx.grid))
+        .collect();
+    let group = Group::new(std::array::from_fn(|l| &preps[l]));
+    let masses: [f64; GROUP] = std::array::from_fn(|l| 760.0 + 7.5 * l as f64);
+    let mut fast: [Flight; GROUP] = std::array::from_fn(|_| Flight::default());
+    let mut portable = fast.clone();
+    group.fly(&ctx.grid, masses, fast.each_mut());
+    group.fly_portable(&ctx.grid, masses, portable.each_mut());
+    for l in 0..GROUP {
+        let mut alone = Flight::default();
+        preps[l].fly(&ctx.grid, masses[l], &mut alone, None);
+        assert_eq!(fast[l], alone, "lane {l}, vector path");
+        assert_eq!(portable[l], alone, "lane {l}, portable path");
+        assert!(
+            alone.battery_j > 0.0 && alone.oei.len() == 2,
+            "lane {l} flew"
+        );
+    }
+}
+
+#[test]
 fn battery_energy_is_shaft_power_plus_every_loss_through_inverter_and_battery() {
     for i in [0, 1, 2, 5, 6] {
         let (f, eta_inv, eta_b) = fly_candidate(i, 820.0);
