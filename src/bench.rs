@@ -77,7 +77,7 @@ pub fn run(runs: usize, designs: usize, sweep_designs: usize) {
         .map(|i| a1_geometry(&s, 0.10 + 0.10 * i as f64 / designs.max(2) as f64))
         .collect();
     let t = Instant::now();
-    // Scored as a sweep scores them: every metric, sixteen designs in lockstep per worker.
+    // Scored as a sweep scores them: every metric, lockstep groups of designs per worker.
     let feasible: usize = family
         .par_chunks(32)
         .map(|g| {

@@ -316,8 +316,8 @@ pub fn evaluate_frozen(
 }
 
 /// [`evaluate_lean`] for many candidates at once: designs of a fixed size (datasheet or
-/// geometry mode) are flown sixteen at a time in lockstep, with the same results as one by
-/// one; size-to-mission candidates and a remainder of fewer than sixteen go one by one.
+/// geometry mode) are flown [`GROUP`] at a time in lockstep, with the same results as one by
+/// one; size-to-mission candidates and a remainder of fewer than [`GROUP`] go one by one.
 pub fn evaluate_lean_group(ctx: &StudyContext, cands: &[Candidate]) -> Vec<CandidateResult> {
     const LANES: usize = GROUP;
     let mut out: Vec<Option<CandidateResult>> = vec![None; cands.len()];

@@ -392,7 +392,6 @@ fn fly_kernel<V: Vf, const K: usize, const L: usize>(
     mut trace: impl FnMut(f64, usize, bool, f64, f64, f64),
 ) {
     assert_eq!(K * V::N, L, "lanes");
-    assert!(K <= 16, "at most sixteen vectors per lockstep group");
     for (out, m) in outs.iter_mut().zip(m) {
         out.mass_kg = m;
         out.nominal.clear();
