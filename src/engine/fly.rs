@@ -63,7 +63,6 @@ struct Kernel {
 pub struct Prepared<'a> {
     pub model: &'a MotorModel,
     pub drive: Drive,
-    segs: Vec<SegConst>,
     pack: Pack<1>,
 }
 
@@ -145,12 +144,7 @@ impl<'a> Prepared<'a> {
         let kernel = kernel(model);
         let mut pack = Pack::<1>::empty(segs.len());
         pack.set_lane(0, model, &drive, &kernel, &segs, grid);
-        Prepared {
-            model,
-            drive,
-            segs,
-            pack,
-        }
+        Prepared { model, drive, pack }
     }
 
     /// Flies the nominal mission and every OEI run at takeoff mass `m`.
@@ -175,7 +169,7 @@ impl<'a> Prepared<'a> {
                         winding_c: w,
                         stator_c: s,
                         torque_nm: torque,
-                        speed_rad_s: self.segs[segment].omega,
+                        speed_rad_s: self.pack.segs[segment][sk::OMEGA][0],
                     })
                 },
             ),
@@ -582,7 +576,6 @@ fn segment_kernel<V: Vf, const K: usize, const L: usize>(
     let dt = g.dt_s;
     let inv_prop_omega = 1.0 / (n_active * g.prop_omega);
     let steps = g.steps.len() as f64;
-    let air_sum: f64 = g.steps.iter().map(|p| p.rho_nu02).sum();
     std::array::from_fn(|l| {
         let inv_eta_inv = d[dk::INV_ETA_INV][l];
         let (shaft_div, inv_omega) = (d[shaft_div][l], c[sk::INV_OMEGA][l]);
@@ -592,7 +585,7 @@ fn segment_kernel<V: Vf, const K: usize, const L: usize>(
         out.max_prop_torque_nm = out.max_prop_torque_nm.max(max_p[l] * inv_prop_omega);
         // Every step has the same length: the integrals are the sums times Δt.
         let shaft = prop_j[l] * shaft_div;
-        let mech = c[sk::OTHER][l] * steps + c[sk::WIND][l] * air_sum;
+        let mech = c[sk::OTHER][l] * steps + c[sk::WIND][l] * g.rho_nu02_sum;
         let input = shaft + cu_j[l] + fe_j[l] + mech;
         let elec_j = n_active * (input * inv_eta_inv) * dt;
         SegStats {

@@ -36,6 +36,9 @@ pub struct SegmentGrid {
     pub floor_w: f64,
     pub steady: bool,
     pub steps: Vec<StepPoint>,
+    /// Σ ρ·ν^0.2 over the steps: the segment's windage energy is its ω^2.8 factor times
+    /// this times Δt.
+    pub rho_nu02_sum: f64,
 }
 
 impl SegmentGrid {
@@ -98,12 +101,13 @@ impl MissionGrid {
                 let dt = t / n as f64;
                 let (h0, h1) = (seg.altitude_start(), seg.altitude_end());
                 let oei_inc = seg.oei_cd0_increment.unwrap_or(0.002);
-                let steps = (0..n)
+                let steps: Vec<StepPoint> = (0..n)
                     .map(|k| {
                         let h = h0 + (k as f64 + 0.5) / n as f64 * (h1 - h0);
                         step_point(study, &seg.power, h, offset, oei_inc)
                     })
                     .collect();
+                let rho_nu02_sum = steps.iter().map(|p| p.rho_nu02).sum();
                 SegmentGrid {
                     name: seg.name.clone(),
                     kind: seg.kind,
@@ -114,6 +118,7 @@ impl MissionGrid {
                     floor_w: seg.idle_floor_kw.unwrap_or(0.0) * 1000.0,
                     steady: matches!(seg.power, PowerRule::Steady { .. }),
                     steps,
+                    rho_nu02_sum,
                 }
             })
             .collect();
