@@ -1,7 +1,7 @@
 //! Mass closure (engine.md §8): the smallest takeoff mass at which the sum of the parts,
 //! after flying the mission at that mass, equals the mass flown.
 
-use super::fly::{Flight, GROUP, Group, Prepared};
+use super::fly::{Detail, Flight, GROUP, Group, Prepared};
 use super::mission::MissionGrid;
 use super::study::{BatteryMode, Study};
 
@@ -110,7 +110,13 @@ pub struct Closer {
     prev: [Option<(f64, f64)>; 2],
     evals: usize,
     at_mtom: bool,
+    /// Whether the next flight is likely the last (see [`Closer::detail_next`]).
+    last_likely: bool,
 }
+
+/// A step this small (or a quadratic one) usually lands within the tolerance: the flight
+/// after it is flown in full detail, the ones before only for the closure.
+const FINAL_APPROACH_KG: f64 = 5.0;
 
 impl Closer {
     /// The closure of a motor of `motor_kg`, and the first mass to fly.
@@ -127,55 +133,84 @@ impl Closer {
                 prev: [None; 2],
                 evals: 0,
                 at_mtom: false,
+                last_likely: false,
             },
             m,
         )
     }
 
+    /// The detail the next flight needs: in full when it is likely the last one (the
+    /// flight at the maximum takeoff mass, after a quadratic step or a step under
+    /// [`FINAL_APPROACH_KG`]), else only what the closure reads. The closure's numbers
+    /// are the same either way; a closure that ends on a closure-only flight is flown
+    /// once more, in full, at the same mass.
+    pub fn detail_next(&self) -> Detail {
+        if self.last_likely {
+            Detail::Full
+        } else {
+            Detail::Closure
+        }
+    }
+
     /// Takes the flight at the mass last asked for and says what comes next.
     pub fn after(&mut self, flight: &Flight) -> Next {
+        let flown = self.m;
+        let (next, quadratic) = self.step(flight);
+        if let Next::Fly(m) = next {
+            self.last_likely = self.at_mtom || quadratic || (m - flown).abs() < FINAL_APPROACH_KG;
+        }
+        next
+    }
+
+    /// The iteration proper; also says whether the next mass came from a quadratic step.
+    fn step(&mut self, flight: &Flight) -> (Next, bool) {
         let ac = &self.ac;
         let p = parts(ac, self.motor_kg, flight);
         if self.at_mtom {
-            return Next::Done(Closure {
+            let done = Closure {
                 converged: false,
                 takeoff_mass_kg: ac.mtom_kg,
                 parts: p,
                 iterations: self.evals,
-            });
+            };
+            return (Next::Done(done), false);
         }
         self.evals += 1;
         let (m, g) = (self.m, p.sum_kg - self.m);
         let ceiling = 3.0 * ac.mtom_kg;
         if !p.sum_kg.is_finite() || p.sum_kg > ceiling || self.evals >= MAX_ITERATIONS {
             self.at_mtom = true;
-            return Next::Fly(ac.mtom_kg);
+            return (Next::Fly(ac.mtom_kg), false);
         }
         if g.abs() < TOLERANCE_KG {
-            return Next::Done(Closure {
+            let done = Closure {
                 converged: true,
                 takeoff_mass_kg: p.sum_kg,
                 parts: p,
                 iterations: self.evals,
-            });
+            };
+            return (Next::Done(done), false);
         }
         if g < 0.0 {
             // A secant step went past the root: step back to the last point below it.
             let (m0, g0) = self.prev[1].unwrap_or((m, 0.0));
             self.prev = [None; 2];
             self.m = m0 + g0;
-            return Next::Fly(self.m);
+            return (Next::Fly(self.m), false);
         }
         // The fixed-point step F(m), or an accelerated step beyond it that stays finite
         // and below the ceiling (one past the root is caught by the next flight, g < 0).
-        let next = accelerated(self.prev, (m, g))
+        let (next, quadratic) = accelerated(self.prev, (m, g))
             .into_iter()
-            .flatten()
-            .find(|&x| x.is_finite() && x > p.sum_kg && x <= ceiling)
-            .unwrap_or(p.sum_kg);
+            .enumerate()
+            .find_map(|(k, x)| {
+                x.filter(|&x| x.is_finite() && x > p.sum_kg && x <= ceiling)
+                    .map(|x| (x, k == 0))
+            })
+            .unwrap_or((p.sum_kg, false));
         self.prev = [self.prev[1], Some((m, g))];
         self.m = next;
-        Next::Fly(next)
+        (Next::Fly(next), quadratic)
     }
 }
 
@@ -212,11 +247,20 @@ pub fn close(
     flight: &mut Flight,
 ) -> Closure {
     let (mut closer, mut m) = Closer::start(ac, prep.model.mass_kg);
+    let mut detail = Detail::Closure;
     loop {
-        prep.fly(grid, m, flight, None);
+        prep.fly_as(grid, m, flight, detail);
         match closer.after(flight) {
-            Next::Fly(next) => m = next,
-            Next::Done(c) => return c,
+            Next::Fly(next) => {
+                m = next;
+                detail = closer.detail_next();
+            }
+            Next::Done(c) => {
+                if detail != Detail::Full {
+                    prep.fly_as(grid, m, flight, Detail::Full);
+                }
+                return c;
+            }
         }
     }
 }
@@ -231,26 +275,51 @@ pub fn close_group(
     acs: [&AircraftConst; GROUP],
     flights: &mut [Flight; GROUP],
 ) -> [Closure; GROUP] {
+    #[derive(Clone, Copy)]
+    enum Lane {
+        Iterating(Detail),
+        /// Closed on a closure-only flight: flown once more, in full, at the same mass.
+        Refly(Closure),
+        Done(Closure),
+    }
     let starts: [(Closer, f64); GROUP] =
         std::array::from_fn(|l| Closer::start(acs[l], group.prepared(l).model.mass_kg));
     let mut closers: [Closer; GROUP] = std::array::from_fn(|l| starts[l].0);
     let mut masses: [f64; GROUP] = std::array::from_fn(|l| starts[l].1);
-    let mut done: [Option<Closure>; GROUP] = [None; GROUP];
+    let mut lanes = [Lane::Iterating(Detail::Closure); GROUP];
     let mut finals: [Option<Flight>; GROUP] = std::array::from_fn(|_| None);
-    while done.iter().any(Option::is_none) {
-        group.fly(grid, masses, flights.each_mut());
+    let pending = |lanes: &[Lane; GROUP]| lanes.iter().any(|s| !matches!(s, Lane::Done(_)));
+    while pending(&lanes) {
+        // One lane that needs the full figures makes the round a full one: the closure's
+        // numbers are the same in either detail.
+        let detail = match lanes
+            .iter()
+            .any(|s| matches!(s, Lane::Iterating(Detail::Full) | Lane::Refly(_)))
+        {
+            true => Detail::Full,
+            false => Detail::Closure,
+        };
+        group.fly_as(grid, masses, flights.each_mut(), detail);
         for l in 0..GROUP {
-            if done[l].is_some() {
-                continue;
-            }
-            match closers[l].after(&flights[l]) {
-                Next::Fly(m) => masses[l] = m,
-                Next::Done(c) => {
-                    done[l] = Some(c);
-                    if done.iter().any(Option::is_none) {
-                        finals[l] = Some(flights[l].clone());
+            let finished = match lanes[l] {
+                Lane::Done(_) => continue,
+                Lane::Refly(c) => c,
+                Lane::Iterating(_) => match closers[l].after(&flights[l]) {
+                    Next::Fly(m) => {
+                        masses[l] = m;
+                        lanes[l] = Lane::Iterating(closers[l].detail_next());
+                        continue;
                     }
-                }
+                    Next::Done(c) if detail != Detail::Full => {
+                        lanes[l] = Lane::Refly(c);
+                        continue;
+                    }
+                    Next::Done(c) => c,
+                },
+            };
+            lanes[l] = Lane::Done(finished);
+            if pending(&lanes) {
+                finals[l] = Some(flights[l].clone());
             }
         }
     }
@@ -259,5 +328,8 @@ pub fn close_group(
             *f = fin;
         }
     }
-    done.map(|c| c.unwrap_or_default())
+    lanes.map(|s| match s {
+        Lane::Done(c) => c,
+        _ => Closure::default(),
+    })
 }

@@ -156,7 +156,7 @@ impl<'a> Prepared<'a> {
         trace: Option<&mut Vec<TracePoint>>,
     ) {
         match trace {
-            Some(tr) => fly_kernel::<f64, 1, 1>(
+            Some(tr) => fly_kernel::<f64, 1, 1, true>(
                 &self.pack,
                 grid,
                 [m],
@@ -173,9 +173,31 @@ impl<'a> Prepared<'a> {
                     })
                 },
             ),
-            None => fly_kernel::<f64, 1, 1>(&self.pack, grid, [m], [out], no_trace),
+            None => self.fly_as(grid, m, out, Detail::Full),
         }
     }
+
+    /// [`Prepared::fly`] at the given [`Detail`].
+    pub fn fly_as(&self, grid: &MissionGrid, m: f64, out: &mut Flight, detail: Detail) {
+        match detail {
+            Detail::Full => fly_kernel::<f64, 1, 1, true>(&self.pack, grid, [m], [out], no_trace),
+            Detail::Closure => {
+                fly_kernel::<f64, 1, 1, false>(&self.pack, grid, [m], [out], no_trace)
+            }
+        }
+    }
+}
+
+/// What a flight works out.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum Detail {
+    /// Every figure of [`SegStats`].
+    Full,
+    /// Only what the mass closure reads — the battery energy and the peak electrical
+    /// power and propeller torque, with the thermal state they depend on — computed by the
+    /// very same operations as in a full flight; the peaks of temperature, current and
+    /// overload, and the idle-floor flag, are left as NaN / false.
+    Closure,
 }
 
 /// The number of designs flown in lockstep by [`Group`].
@@ -204,21 +226,45 @@ impl<'a> Group<'a> {
     /// numbers as [`Prepared::fly`] would give it. Four designs share each AVX register
     /// where the processor has AVX2.
     pub fn fly(&self, grid: &MissionGrid, m: [f64; GROUP], outs: [&mut Flight; GROUP]) {
+        self.fly_as(grid, m, outs, Detail::Full)
+    }
+
+    /// [`Group::fly`] at the given [`Detail`].
+    pub fn fly_as(
+        &self,
+        grid: &MissionGrid,
+        m: [f64; GROUP],
+        outs: [&mut Flight; GROUP],
+        detail: Detail,
+    ) {
         #[cfg(target_arch = "x86_64")]
         {
             if std::arch::is_x86_feature_detected!("avx2") {
                 // SAFETY: the processor was just found to support AVX2.
-                unsafe { fly_group_avx2(&self.pack, grid, m, outs) };
+                unsafe { fly_group_avx2(&self.pack, grid, m, outs, detail) };
                 return;
             }
         }
-        self.fly_portable(grid, m, outs);
+        self.fly_portable(grid, m, outs, detail);
     }
 
-    /// [`Group::fly`] without vector instructions (the path of processors without AVX2):
-    /// the same operations lane by lane, so the same numbers.
-    pub fn fly_portable(&self, grid: &MissionGrid, m: [f64; GROUP], outs: [&mut Flight; GROUP]) {
-        fly_kernel::<f64, GROUP, GROUP>(&self.pack, grid, m, outs, no_trace);
+    /// [`Group::fly_as`] without vector instructions (the path of processors without
+    /// AVX2): the same operations lane by lane, so the same numbers.
+    pub fn fly_portable(
+        &self,
+        grid: &MissionGrid,
+        m: [f64; GROUP],
+        outs: [&mut Flight; GROUP],
+        detail: Detail,
+    ) {
+        match detail {
+            Detail::Full => {
+                fly_kernel::<f64, GROUP, GROUP, true>(&self.pack, grid, m, outs, no_trace)
+            }
+            Detail::Closure => {
+                fly_kernel::<f64, GROUP, GROUP, false>(&self.pack, grid, m, outs, no_trace)
+            }
+        }
     }
 }
 
@@ -229,8 +275,15 @@ fn fly_group_avx2(
     grid: &MissionGrid,
     m: [f64; GROUP],
     outs: [&mut Flight; GROUP],
+    detail: Detail,
 ) {
-    fly_kernel::<super::simd::F4, { GROUP / 4 }, GROUP>(pack, grid, m, outs, no_trace);
+    use super::simd::F4;
+    match detail {
+        Detail::Full => fly_kernel::<F4, { GROUP / 4 }, GROUP, true>(pack, grid, m, outs, no_trace),
+        Detail::Closure => {
+            fly_kernel::<F4, { GROUP / 4 }, GROUP, false>(pack, grid, m, outs, no_trace)
+        }
+    }
 }
 
 #[inline(always)]
@@ -378,7 +431,7 @@ struct State<V, const K: usize> {
 /// Flies the L = K·V::N designs of `pack` through the same mission in lockstep, each lane
 /// with exactly the arithmetic of one design alone. `trace` sees lane 0 at every step.
 #[inline(always)]
-fn fly_kernel<V: Vf, const K: usize, const L: usize>(
+fn fly_kernel<V: Vf, const K: usize, const L: usize, const FULL: bool>(
     pack: &Pack<L>,
     grid: &MissionGrid,
     m: [f64; L],
@@ -407,7 +460,7 @@ fn fly_kernel<V: Vf, const K: usize, const L: usize>(
     let mut time = 0.0;
     for (i, g) in grid.segments.iter().enumerate() {
         starts.push(state);
-        let stats = segment_kernel::<V, K, L>(
+        let stats = segment_kernel::<V, K, L, FULL>(
             pack, g, i, &m, n, false, &mut state, &mut outs, &mut time, &mut trace,
         );
         for (out, s) in outs.iter_mut().zip(stats) {
@@ -420,7 +473,7 @@ fn fly_kernel<V: Vf, const K: usize, const L: usize>(
         let mut st = starts[a];
         let mut t = grid.segments[..a].iter().map(|g| g.duration_s).sum::<f64>();
         for (i, g) in grid.segments.iter().enumerate().take(b + 1).skip(a) {
-            let stats = segment_kernel::<V, K, L>(
+            let stats = segment_kernel::<V, K, L, FULL>(
                 pack,
                 g,
                 i,
@@ -441,7 +494,7 @@ fn fly_kernel<V: Vf, const K: usize, const L: usize>(
 
 #[allow(clippy::too_many_arguments)]
 #[inline(always)]
-fn segment_kernel<V: Vf, const K: usize, const L: usize>(
+fn segment_kernel<V: Vf, const K: usize, const L: usize, const FULL: bool>(
     pack: &Pack<L>,
     g: &SegmentGrid,
     i: usize,
@@ -496,7 +549,9 @@ fn segment_kernel<V: Vf, const K: usize, const L: usize>(
         let (mut cu, mut rest, mut input, mut current, mut e0) = (v(), v(), v(), v(), v());
         each!(j => {
             let raw = c0 + mass[j] * (c1 + mass[j] * c2);
-            min_raw[j] = min_raw[j].min(raw);
+            if FULL {
+                min_raw[j] = min_raw[j].min(raw);
+            }
             power[j] = raw.max(floor);
         });
         each!(j => pm[j] = power[j] * ld(shaft_div, j));
@@ -521,7 +576,10 @@ fn segment_kernel<V: Vf, const K: usize, const L: usize>(
         each!(j => {
             let loss = cu[j] + rest[j];
             input[j] = pm[j] + loss;
-            current[j] = input[j] * lc(sk::CUR_W, j) * inv_b[j] + torque[j] * ld(dk::CUR_NM, j);
+            if FULL {
+                current[j] =
+                    input[j] * lc(sk::CUR_W, j) * inv_b[j] + torque[j] * ld(dk::CUR_NM, j);
+            }
         });
         // Exact thermal step (see `Pack::set_lane`): the parts that do not wait for the
         // copper loss first, then one multiply-add of it per node.
@@ -536,15 +594,17 @@ fn segment_kernel<V: Vf, const K: usize, const L: usize>(
             ss[j] = ps + lc(sk::QS, j) * cu[j];
         });
         each!(j => {
-            ov[j] = torque[j].gt_or_zero(lc(sk::OVERLOAD, j), ov[j] + dt);
+            if FULL {
+                ov[j] = torque[j].gt_or_zero(lc(sk::OVERLOAD, j), ov[j] + dt);
+                max_o[j] = max_o[j].max(ov[j]);
+                max_i[j] = max_i[j].max(current[j]);
+                pk_w[j] = pk_w[j].max(w[j]);
+                pk_s[j] = pk_s[j].max(ss[j]);
+            }
             cu_j[j] = cu_j[j] + cu[j];
             prop_j[j] = prop_j[j] + power[j];
-            max_o[j] = max_o[j].max(ov[j]);
-            max_i[j] = max_i[j].max(current[j]);
             max_in[j] = max_in[j].max(input[j]);
             max_p[j] = max_p[j].max(power[j]);
-            pk_w[j] = pk_w[j].max(w[j]);
-            pk_s[j] = pk_s[j].max(ss[j]);
         });
         let torque0 = torque[0].first();
         t_now += g.dt_s;
@@ -603,13 +663,13 @@ fn segment_kernel<V: Vf, const K: usize, const L: usize>(
             battery_j: elec_j / d[dk::ETA_B][l],
             prop_j: prop_j[l] * dt,
             max_torque_nm: max_p[l] * shaft_div * inv_omega,
-            max_overload_s: max_o[l],
-            max_current_a: max_i[l],
-            peak_winding_c: pk_w[l],
-            peak_stator_c: pk_s[l],
+            max_overload_s: if FULL { max_o[l] } else { f64::NAN },
+            max_current_a: if FULL { max_i[l] } else { f64::NAN },
+            peak_winding_c: if FULL { pk_w[l] } else { f64::NAN },
+            peak_stator_c: if FULL { pk_s[l] } else { f64::NAN },
             end_winding_c: w[l],
             end_stator_c: ss[l],
-            floor_applied: min_raw[l] < g.floor_w,
+            floor_applied: FULL && min_raw[l] < g.floor_w,
         }
     })
 }

@@ -4,7 +4,7 @@ use crate::fixtures::{demo, demo_value, parse};
 use serde_json::json;
 use shaftline::engine::atmosphere::{G0, air};
 use shaftline::engine::evaluate::StudyContext;
-use shaftline::engine::fly::{Flight, Prepared};
+use shaftline::engine::fly::{Detail, Flight, Prepared};
 use shaftline::engine::mission::{MissionGrid, segment_preview};
 use shaftline::engine::score_study;
 
@@ -83,7 +83,7 @@ fn a_lockstep_group_flies_every_lane_as_that_design_alone() {
     let mut fast: [Flight; GROUP] = std::array::from_fn(|_| Flight::default());
     let mut portable = fast.clone();
     group.fly(&ctx.grid, masses, fast.each_mut());
-    group.fly_portable(&ctx.grid, masses, portable.each_mut());
+    group.fly_portable(&ctx.grid, masses, portable.each_mut(), Detail::Full);
     for l in 0..GROUP {
         let mut alone = Flight::default();
         preps[l].fly(&ctx.grid, masses[l], &mut alone, None);
@@ -93,6 +93,34 @@ fn a_lockstep_group_flies_every_lane_as_that_design_alone() {
             alone.battery_j > 0.0 && alone.oei.len() == 2,
             "lane {l} flew"
         );
+    }
+}
+
+#[test]
+fn a_closure_only_flight_gives_the_closure_the_numbers_of_a_full_flight() {
+    // The mass closure flies its early iterations without the report-only peaks; what it
+    // reads must be bit for bit what a full flight gives, or the closed mass would depend
+    // on the detail.
+    let study = demo();
+    let ctx = StudyContext::new(&study);
+    for c in &study.candidates {
+        let (_, model, drive) = shaftline::engine::evaluate::evaluate_full(&ctx, c);
+        let model = model.unwrap();
+        let prep = Prepared::new(&model, drive, &ctx.grid);
+        let (mut full, mut lean) = (Flight::default(), Flight::default());
+        prep.fly_as(&ctx.grid, 805.0, &mut full, Detail::Full);
+        prep.fly_as(&ctx.grid, 805.0, &mut lean, Detail::Closure);
+        assert_eq!(lean.battery_j, full.battery_j, "{}", c.name);
+        assert_eq!(lean.max_elec_per_motor_w, full.max_elec_per_motor_w);
+        assert_eq!(lean.max_prop_torque_nm, full.max_prop_torque_nm);
+        for (a, b) in lean.nominal.iter().zip(&full.nominal) {
+            assert_eq!(
+                (a.input_j, a.copper_j, a.end_winding_c),
+                (b.input_j, b.copper_j, b.end_winding_c)
+            );
+            assert!(a.peak_winding_c.is_nan() && b.peak_winding_c.is_finite());
+        }
+        assert_eq!(lean.oei.len(), full.oei.len());
     }
 }
 
