@@ -46,7 +46,8 @@ fn fail(path: &str, message: &str) -> ! {
     std::process::exit(2);
 }
 
-/// Prints `label: N %` on stderr about five times a second until `stop` is set.
+/// Prints `label: N %` on stderr about five times a second until `stop` is set (the
+/// setter unparks this thread, so the process does not wait out a last interval).
 fn progress(label: &'static str, done: &AtomicUsize, total: usize, stop: &AtomicBool) {
     let mut last = usize::MAX;
     while !stop.load(Ordering::Relaxed) {
@@ -58,7 +59,7 @@ fn progress(label: &'static str, done: &AtomicUsize, total: usize, stop: &Atomic
             );
             last = pct;
         }
-        std::thread::sleep(Duration::from_millis(200));
+        std::thread::park_timeout(Duration::from_millis(200));
     }
     eprintln!("\r{label}: 100 % ({total} of {total})");
 }
@@ -95,7 +96,7 @@ pub fn run_sweep(args: &SweepArgs) -> anyhow::Result<()> {
     let mut io_error: Option<anyhow::Error> = None;
     let mut first = true;
     std::thread::scope(|s| {
-        s.spawn(|| progress("sweep", &done, sw.len(), &stop));
+        let bar = s.spawn(|| progress("sweep", &done, sw.len(), &stop));
         // Rows are formatted on the worker threads; this thread only writes them out.
         sweep::run_mapped(
             &study,
@@ -122,6 +123,7 @@ pub fn run_sweep(args: &SweepArgs) -> anyhow::Result<()> {
             },
         );
         stop.store(true, Ordering::Relaxed);
+        bar.thread().unpark();
     });
     if let Some(e) = io_error {
         return Err(e);

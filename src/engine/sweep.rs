@@ -14,7 +14,7 @@ use std::sync::atomic::{AtomicBool, AtomicUsize, Ordering};
 /// The most designs one sweep may hold.
 pub const MAX_DESIGNS: usize = 100_000;
 /// Designs scored together before their rows are handed out in order.
-pub const CHUNK: usize = 4096;
+pub const CHUNK: usize = 8192;
 /// Designs handed to one worker at a time (a multiple of the lockstep group).
 const GROUP: usize = 32;
 
