@@ -1,6 +1,7 @@
 //! Mass closure (engine.md §8): the smallest takeoff mass at which the sum of the parts,
 //! after flying the mission at that mass, equals the mass flown.
 
+use super::bound;
 use super::fly::{Detail, Flight, GROUP, Group, Prepared};
 use super::mission::MissionGrid;
 use super::study::{BatteryMode, Study};
@@ -55,13 +56,29 @@ pub struct Parts {
 }
 
 pub fn parts(ac: &AircraftConst, motor_kg: f64, f: &Flight) -> Parts {
-    let inverter_kg = f.max_elec_per_motor_w / ac.inverter_w_per_kg;
-    let gearbox_kg = ac
-        .gearbox_nm_per_kg
-        .map_or(0.0, |k| f.max_prop_torque_nm / k);
+    parts_from(
+        ac,
+        motor_kg,
+        f.battery_j,
+        f.max_elec_per_motor_w,
+        f.max_prop_torque_nm,
+    )
+}
+
+/// [`parts`] from a flight's battery energy (J), highest electrical power per motor (W)
+/// and highest propeller torque per motor (N·m).
+pub fn parts_from(
+    ac: &AircraftConst,
+    motor_kg: f64,
+    battery_j: f64,
+    max_elec_per_motor_w: f64,
+    max_prop_torque_nm: f64,
+) -> Parts {
+    let inverter_kg = max_elec_per_motor_w / ac.inverter_w_per_kg;
+    let gearbox_kg = ac.gearbox_nm_per_kg.map_or(0.0, |k| max_prop_torque_nm / k);
     let battery_kg = ac
         .fixed_battery_kg
-        .unwrap_or(f.battery_j / ac.usable_j_per_kg);
+        .unwrap_or(battery_j / ac.usable_j_per_kg);
     Parts {
         sum_kg: ac.airframe_kg
             + ac.payload_kg
@@ -106,6 +123,11 @@ pub struct Closer {
     ac: AircraftConst,
     motor_kg: f64,
     m: f64,
+    /// m₀ of engine.md §8, where the closure starts over should it ever find itself above
+    /// the root with no point below it.
+    m0: f64,
+    /// The slope of F for the first step (see [`bound::closure_start`]), used once.
+    slope: Option<f64>,
     /// The last two points below the root, (m, F(m) − m), older first.
     prev: [Option<(f64, f64)>; 2],
     evals: usize,
@@ -114,22 +136,40 @@ pub struct Closer {
     last_likely: bool,
 }
 
+/// How the closure's next mass was found.
+#[derive(Debug, Clone, Copy, PartialEq)]
+enum Kind {
+    /// Fixed-point or secant step.
+    Plain,
+    Quadratic,
+    /// The first step, along the bound's slope.
+    Hint,
+}
+
 /// A step this small (or a quadratic one) usually lands within the tolerance: the flight
 /// after it is flown in full detail, the ones before only for the closure.
 const FINAL_APPROACH_KG: f64 = 5.0;
 
 impl Closer {
-    /// The closure of a motor of `motor_kg`, and the first mass to fly.
-    pub fn start(ac: &AircraftConst, motor_kg: f64) -> (Closer, f64) {
-        let m = ac.airframe_kg
+    /// The closure of a prepared design, and the first mass to fly: not m₀ itself but
+    /// the root of a lower bound of F found from m₀ ([`bound`]), which fixed-point steps
+    /// from m₀ would pass on their way up (a reading of §8: the same root is found, from
+    /// below, in fewer flights).
+    pub fn start(ac: &AircraftConst, prep: &Prepared, grid: &MissionGrid) -> (Closer, f64) {
+        let motor_kg = prep.model.mass_kg;
+        let m0 = ac.airframe_kg
             + ac.payload_kg
             + ac.motors * motor_kg
             + ac.fixed_battery_kg.unwrap_or(0.0);
+        let start = bound::closure_start(&grid.bound, prep, ac, m0);
+        let m = start.mass_kg;
         (
             Closer {
                 ac: *ac,
                 motor_kg,
                 m,
+                m0,
+                slope: start.slope,
                 prev: [None; 2],
                 evals: 0,
                 at_mtom: false,
@@ -155,15 +195,19 @@ impl Closer {
     /// Takes the flight at the mass last asked for and says what comes next.
     pub fn after(&mut self, flight: &Flight) -> Next {
         let flown = self.m;
-        let (next, quadratic) = self.step(flight);
+        let (next, kind) = self.step(flight);
         if let Next::Fly(m) = next {
-            self.last_likely = self.at_mtom || quadratic || (m - flown).abs() < FINAL_APPROACH_KG;
+            self.last_likely = self.at_mtom
+                || match kind {
+                    Kind::Quadratic => true,
+                    Kind::Plain | Kind::Hint => (m - flown).abs() < FINAL_APPROACH_KG,
+                };
         }
         next
     }
 
-    /// The iteration proper; also says whether the next mass came from a quadratic step.
-    fn step(&mut self, flight: &Flight) -> (Next, bool) {
+    /// The iteration proper; also says what kind of step gave the next mass.
+    fn step(&mut self, flight: &Flight) -> (Next, Kind) {
         let ac = &self.ac;
         let p = parts(ac, self.motor_kg, flight);
         if self.at_mtom {
@@ -173,14 +217,14 @@ impl Closer {
                 parts: p,
                 iterations: self.evals,
             };
-            return (Next::Done(done), false);
+            return (Next::Done(done), Kind::Plain);
         }
         self.evals += 1;
         let (m, g) = (self.m, p.sum_kg - self.m);
         let ceiling = 3.0 * ac.mtom_kg;
         if !p.sum_kg.is_finite() || p.sum_kg > ceiling || self.evals >= MAX_ITERATIONS {
             self.at_mtom = true;
-            return (Next::Fly(ac.mtom_kg), false);
+            return (Next::Fly(ac.mtom_kg), Kind::Plain);
         }
         if g.abs() < TOLERANCE_KG {
             let done = Closure {
@@ -189,28 +233,46 @@ impl Closer {
                 parts: p,
                 iterations: self.evals,
             };
-            return (Next::Done(done), false);
+            return (Next::Done(done), Kind::Plain);
+        }
+        if g < 0.0 && self.prev[1].is_none() && m != self.m0 {
+            // Above the root with no point below it (the start was not below the root,
+            // which the bound rules out): start over from m₀.
+            self.slope = None;
+            self.m = self.m0;
+            return (Next::Fly(self.m), Kind::Plain);
         }
         if g < 0.0 {
             // A secant step went past the root: step back to the last point below it.
             let (m0, g0) = self.prev[1].unwrap_or((m, 0.0));
             self.prev = [None; 2];
             self.m = m0 + g0;
-            return (Next::Fly(self.m), false);
+            return (Next::Fly(self.m), Kind::Plain);
         }
         // The fixed-point step F(m), or an accelerated step beyond it that stays finite
         // and below the ceiling (one past the root is caught by the next flight, g < 0).
-        let (next, quadratic) = accelerated(self.prev, (m, g))
-            .into_iter()
-            .enumerate()
-            .find_map(|(k, x)| {
-                x.filter(|&x| x.is_finite() && x > p.sum_kg && x <= ceiling)
-                    .map(|x| (x, k == 0))
-            })
-            .unwrap_or((p.sum_kg, false));
+        // From the first point, the step along the bound's slope (F_lb' a little under F'
+        // near the root, so it stays short of the root, see [`bound`]); it is not likely
+        // the last: the secant after it is.
+        let hint = match (self.slope.take(), self.prev[1]) {
+            (Some(s), None) => Some(m + g / (1.0 - s)),
+            _ => None,
+        };
+        let [quadratic, secant] = accelerated(self.prev, (m, g));
+        let (next, kind) = [
+            (quadratic, Kind::Quadratic),
+            (secant, Kind::Plain),
+            (hint, Kind::Hint),
+        ]
+        .into_iter()
+        .find_map(|(x, kind)| {
+            x.filter(|&x| x.is_finite() && x > p.sum_kg && x <= ceiling)
+                .map(|x| (x, kind))
+        })
+        .unwrap_or((p.sum_kg, Kind::Plain));
         self.prev = [self.prev[1], Some((m, g))];
         self.m = next;
-        (Next::Fly(next), quadratic)
+        (Next::Fly(next), kind)
     }
 }
 
@@ -246,7 +308,7 @@ pub fn close(
     ac: &AircraftConst,
     flight: &mut Flight,
 ) -> Closure {
-    let (mut closer, mut m) = Closer::start(ac, prep.model.mass_kg);
+    let (mut closer, mut m) = Closer::start(ac, prep, grid);
     let mut detail = Detail::Closure;
     loop {
         prep.fly_as(grid, m, flight, detail);
@@ -283,7 +345,7 @@ pub fn close_group(
         Done(Closure),
     }
     let starts: [(Closer, f64); GROUP] =
-        std::array::from_fn(|l| Closer::start(acs[l], group.prepared(l).model.mass_kg));
+        std::array::from_fn(|l| Closer::start(acs[l], group.prepared(l), grid));
     let mut closers: [Closer; GROUP] = std::array::from_fn(|l| starts[l].0);
     let mut masses: [f64; GROUP] = std::array::from_fn(|l| starts[l].1);
     let mut lanes = [Lane::Iterating(Detail::Closure); GROUP];
@@ -332,4 +394,74 @@ pub fn close_group(
         Lane::Done(c) => c,
         _ => Closure::default(),
     })
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    /// A closure over a made-up linear F(m) = 500 kg + 0.3·m (all of it "battery"), so
+    /// that the iteration can be followed by hand; the root is 500/0.7 kg.
+    fn linear_closer(start_kg: f64, slope: Option<f64>) -> (Closer, impl Fn(f64) -> Flight) {
+        let ac = AircraftConst {
+            airframe_kg: 400.0,
+            payload_kg: 100.0,
+            mtom_kg: 1000.0,
+            motors: 2.0,
+            usable_j_per_kg: 1.0,
+            fixed_battery_kg: None,
+            inverter_w_per_kg: f64::INFINITY,
+            gearbox_nm_per_kg: None,
+        };
+        let closer = Closer {
+            ac,
+            motor_kg: 0.0,
+            m: start_kg,
+            m0: 500.0,
+            slope,
+            prev: [None; 2],
+            evals: 0,
+            at_mtom: false,
+            last_likely: false,
+        };
+        let fly = |m: f64| Flight {
+            mass_kg: m,
+            battery_j: 0.3 * m,
+            ..Flight::default()
+        };
+        (closer, fly)
+    }
+
+    fn run(mut closer: Closer, fly: impl Fn(f64) -> Flight) -> (Closure, Vec<f64>) {
+        let mut flown = vec![closer.m];
+        loop {
+            match closer.after(&fly(closer.m)) {
+                Next::Fly(m) => flown.push(m),
+                Next::Done(c) => return (c, flown),
+            }
+        }
+    }
+
+    #[test]
+    fn a_start_above_the_root_starts_over_from_m0_and_still_closes_on_the_root() {
+        let (closer, fly) = linear_closer(900.0, Some(0.3));
+        let (c, flown) = run(closer, fly);
+        assert_eq!(flown[1], 500.0, "second flight at m0: {flown:?}");
+        assert!(c.converged);
+        assert!((c.takeoff_mass_kg - 500.0 / 0.7).abs() < TOLERANCE_KG);
+    }
+
+    #[test]
+    fn the_bound_slope_step_lands_on_a_linear_root_in_one_step() {
+        // With F's own slope the first step is Newton's: exact for a linear F.
+        let (closer, fly) = linear_closer(600.0, Some(0.3));
+        let (c, flown) = run(closer, fly);
+        assert_eq!(flown.len(), 2, "{flown:?}");
+        assert!((c.takeoff_mass_kg - 500.0 / 0.7).abs() < 1e-9);
+        // Without it, fixed-point and secant steps: one flight more.
+        let (closer, fly) = linear_closer(600.0, None);
+        let (c, flown) = run(closer, fly);
+        assert_eq!(flown.len(), 3, "{flown:?}");
+        assert!((c.takeoff_mass_kg - 500.0 / 0.7).abs() < TOLERANCE_KG);
+    }
 }

@@ -63,7 +63,7 @@ struct Kernel {
 pub struct Prepared<'a> {
     pub model: &'a MotorModel,
     pub drive: Drive,
-    pack: Pack<1>,
+    pub(super) pack: Pack<1>,
 }
 
 /// Accumulated figures of one segment (nominal or one motor out), per motor unless noted.
@@ -290,7 +290,7 @@ fn fly_group_avx2(
 fn no_trace(_: f64, _: usize, _: bool, _: f64, _: f64, _: f64) {}
 
 /// Indices of the per-design constants of a [`Pack`].
-mod dk {
+pub(super) mod dk {
     pub const SHAFT_DIV_NOMINAL: usize = 0;
     pub const SHAFT_DIV_OEI: usize = 1;
     pub const INV_ETA_INV: usize = 2;
@@ -310,7 +310,7 @@ mod dk {
 }
 
 /// Indices of the per-segment constants of a [`Pack`].
-mod sk {
+pub(super) mod sk {
     pub const INV_OMEGA: usize = 0;
     pub const IRON: usize = 1;
     pub const OTHER: usize = 2;
@@ -334,9 +334,9 @@ mod sk {
 /// The constants of L designs, each one an array over the lanes, so that the step loop
 /// loads every constant of several designs with one instruction.
 #[derive(Clone)]
-struct Pack<const L: usize> {
-    design: [[f64; L]; dk::COUNT],
-    segs: Vec<[[f64; L]; sk::COUNT]>,
+pub(super) struct Pack<const L: usize> {
+    pub(super) design: [[f64; L]; dk::COUNT],
+    pub(super) segs: Vec<[[f64; L]; sk::COUNT]>,
 }
 
 impl<const L: usize> Pack<L> {

@@ -3,6 +3,7 @@
 //! Computed once per study; nothing here depends on the candidate.
 
 use super::atmosphere::{self, G0};
+use super::bound::BoundGrid;
 use super::study::{PowerRule, SegmentKind, Study};
 use serde::Serialize;
 
@@ -63,6 +64,8 @@ pub struct MissionGrid {
     /// Inclusive (first, last) segment indices of each OEI run; empty for one motor.
     pub oei_runs: Vec<(usize, usize)>,
     pub motor_count: u32,
+    /// The study-level part of the closure's lower bound.
+    pub bound: BoundGrid,
 }
 
 /// Duration of a segment, s (the combination was validated at input).
@@ -127,10 +130,17 @@ impl MissionGrid {
         } else {
             Vec::new()
         };
+        let bound = BoundGrid::new(
+            &segments,
+            &oei_runs,
+            a.airframe_mass_kg + a.payload_kg,
+            a.max_takeoff_mass_kg,
+        );
         MissionGrid {
             segments,
             oei_runs,
             motor_count: a.motor_count,
+            bound,
         }
     }
 

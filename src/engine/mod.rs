@@ -4,6 +4,7 @@
 mod assume;
 pub mod atmosphere;
 pub mod axial;
+pub mod bound;
 pub mod checks;
 pub mod closure;
 pub mod datasheet;

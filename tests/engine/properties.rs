@@ -116,6 +116,8 @@ proptest! {
             let r = score_study(&s);
             prop_assert_eq!(r.candidates.len(), cands.len());
             r.candidates.iter().for_each(check_candidate);
+            // The closure's lower bound holds on any study, not only the demo.
+            crate::flight::check_closure_bound(&s);
         }
     }
 }
