@@ -63,9 +63,11 @@ impl BoundGrid {
     pub fn new(
         segments: &[SegmentGrid],
         oei_runs: &[(usize, usize)],
+        motor_count: u32,
         least_mass_kg: f64,
         ref_mass_kg: f64,
     ) -> BoundGrid {
+        let motors = motor_count as f64;
         let m = least_mass_kg;
         let raw = |c: [f64; 3], m: f64| c[0] + m * (c[1] + m * c[2]);
         let rises = |c: [f64; 3], floor: f64| {
@@ -126,6 +128,25 @@ impl BoundGrid {
                 }
             }
         }
+        // The two highest steps in power per motor and the two highest in torque per
+        // motor (the same order for the motor's torque, whose speed is the propeller's
+        // times a fixed ratio).
+        let active = |oei: bool| if oei { motors - 1.0 } else { motors };
+        let at_ref = |p: &PeakStep| raw(p.c, ref_mass_kg) / active(p.oei);
+        let mut by_power: Vec<PeakStep> = peaks.clone();
+        by_power.sort_by(|a, b| at_ref(b).total_cmp(&at_ref(a)));
+        let mut by_torque = peaks;
+        by_torque.sort_by(|a, b| (at_ref(b) / b.prop_omega).total_cmp(&(at_ref(a) / a.prop_omega)));
+        let mut peaks: Vec<PeakStep> = Vec::with_capacity(PEAKS);
+        for p in by_power
+            .into_iter()
+            .take(2)
+            .chain(by_torque.into_iter().take(2))
+        {
+            if !peaks.contains(&p) {
+                peaks.push(p);
+            }
+        }
         BoundGrid {
             segs,
             peaks,
@@ -135,15 +156,34 @@ impl BoundGrid {
     }
 }
 
-/// The bound for one design: the battery energy as a quartic in m and the loss
-/// coefficients of the peaks.
+/// At most this many steps bound the peaks: the two highest in power per motor and the
+/// two highest in torque per motor at the reference mass (any subset of the steps bounds
+/// a maximum from below).
+const PEAKS: usize = 4;
+
+/// The bound for one design as polynomials in m, constant term first: the battery energy
+/// (J), and per peak step the motor input power (W per motor) and propeller torque (N·m
+/// per motor).
 #[derive(Debug, Clone, Copy)]
 struct Floor {
-    /// Battery energy, J, constant term first.
     energy: [f64; 5],
-    /// Copper loss ≥ kcu·T², iron loss ≥ iron_b2·(segment's iron coefficient).
-    kcu: f64,
-    iron_b2: f64,
+    input: [[f64; 5]; PEAKS],
+    torque: [[f64; 3]; PEAKS],
+}
+
+/// p(m)² as a quartic, for p = c0 + c1·m + c2·m².
+fn square(c: [f64; 3]) -> [f64; 5] {
+    [
+        c[0] * c[0],
+        2.0 * c[0] * c[1],
+        c[1] * c[1] + 2.0 * c[0] * c[2],
+        2.0 * c[1] * c[2],
+        c[2] * c[2],
+    ]
+}
+
+fn horner<const N: usize>(c: &[f64; N], m: f64) -> f64 {
+    c.iter().rev().fold(0.0, |acc, &k| acc * m + k)
 }
 
 fn floor_of(bound: &BoundGrid, prep: &Prepared, motors: f64) -> Floor {
@@ -159,6 +199,7 @@ fn floor_of(bound: &BoundGrid, prep: &Prepared, motors: f64) -> Floor {
     let (b_cold, b_capped) = (b(cold), b(d(dk::MAGNET_CAP)));
     let (b_lo, b_hi) = (b_cold.min(b_capped), b_cold.max(b_capped));
     let cu = |t: f64| d(dk::CU0) + d(dk::CU1) * t.min(d(dk::WINDING_CAP));
+    // Copper loss ≥ kcu·T², iron loss ≥ b_lo²·(the segment's iron coefficient).
     let kcu = cu(cold).min(cu(d(dk::WINDING_CAP))).max(0.0) / (b_hi * b_hi);
     let iron_b2 = b_lo * b_lo;
     let shaft_div = d(dk::SHAFT_DIV_NOMINAL);
@@ -169,64 +210,58 @@ fn floor_of(bound: &BoundGrid, prep: &Prepared, motors: f64) -> Floor {
         let k = per_w * s.dt_s;
         let fixed = s.steps * (iron_b2 * c(sk::IRON) + c(sk::OTHER)) + c(sk::WIND) * s.rho_nu02_sum;
         energy[0] += k * fixed;
+        let torque_per_w = shaft_div * c(sk::INV_OMEGA);
+        let q = kcu * torque_per_w * torque_per_w;
         if s.rising {
-            let torque_per_w = shaft_div * c(sk::INV_OMEGA);
-            let q = kcu * torque_per_w * torque_per_w;
-            for (e, (&a, &b)) in energy
-                .iter_mut()
-                .zip(s.sum.iter().chain(&[0.0, 0.0]).zip(&s.sum_sq))
-            {
+            let sum = [s.sum[0], s.sum[1], s.sum[2], 0.0, 0.0];
+            for ((e, a), b) in energy.iter_mut().zip(sum).zip(s.sum_sq) {
                 *e += k * (shaft_div * a + q * b);
             }
         } else {
             // Power at least the idle floor at every step (P² too when the floor is ≥ 0).
             let f = s.floor_w;
-            let cu = kcu * (f.max(0.0) * shaft_div * c(sk::INV_OMEGA)).powi(2);
-            energy[0] += k * s.steps * (shaft_div * f + cu);
+            energy[0] += k * s.steps * (shaft_div * f + q * f.max(0.0) * f.max(0.0));
         }
+    }
+    let mut input = [[0.0; 5]; PEAKS];
+    let mut torque = [[0.0; 3]; PEAKS];
+    for (k, p) in bound.peaks.iter().take(PEAKS).enumerate() {
+        let c = |i: usize| pack.segs[p.seg][i][0];
+        let (div, active) = match p.oei {
+            true => (d(dk::SHAFT_DIV_OEI), motors - 1.0),
+            false => (shaft_div, motors),
+        };
+        // A rising step's power is its raw power (≥ 0); any step's is at least the floor.
+        let (power, positive) = match p.rising {
+            true => (p.c, p.c),
+            false => ([p.floor_w, 0.0, 0.0], [p.floor_w.max(0.0), 0.0, 0.0]),
+        };
+        let q = kcu * (div * c(sk::INV_OMEGA)).powi(2);
+        let sq = square(positive);
+        for (i, x) in input[k].iter_mut().enumerate() {
+            let linear = if i < 3 { div * power[i] } else { 0.0 };
+            *x = linear + q * sq[i];
+        }
+        input[k][0] += iron_b2 * c(sk::IRON) + c(sk::OTHER) + c(sk::WIND) * p.rho_nu02;
+        let per = 1.0 / (active * p.prop_omega);
+        torque[k] = power.map(|x| x * per);
     }
     Floor {
         energy,
-        kcu,
-        iron_b2,
+        input,
+        torque,
     }
 }
 
 /// F_lb(m): a lower bound of the sum of the parts after flying the mission at m.
-fn floor_sum(bound: &BoundGrid, prep: &Prepared, ac: &AircraftConst, f: &Floor, m: f64) -> f64 {
-    let pack = &prep.pack;
-    let d = |k: usize| pack.design[k][0];
-    let e = &f.energy;
-    let battery_j = e[0] + m * (e[1] + m * (e[2] + m * (e[3] + m * e[4])));
-    let (mut max_in, mut max_torque) = (0.0_f64, 0.0_f64);
-    for p in &bound.peaks {
-        // A rising step's power is its raw power (≥ 0); any step's is at least the floor.
-        let (power, positive) = if p.rising {
-            let raw = p.c[0] + m * (p.c[1] + m * p.c[2]);
-            (raw, raw)
-        } else {
-            (p.floor_w, p.floor_w.max(0.0))
-        };
-        let c = |k: usize| pack.segs[p.seg][k][0];
-        let (div, active) = match p.oei {
-            true => (d(dk::SHAFT_DIV_OEI), ac.motors - 1.0),
-            false => (d(dk::SHAFT_DIV_NOMINAL), ac.motors),
-        };
-        let pm = power * div;
-        let torque = positive * div * c(sk::INV_OMEGA);
-        let input = pm
-            + f.kcu * torque * torque
-            + f.iron_b2 * c(sk::IRON)
-            + c(sk::OTHER)
-            + c(sk::WIND) * p.rho_nu02;
-        max_in = max_in.max(input);
-        max_torque = max_torque.max(power / (active * p.prop_omega));
-    }
+fn floor_sum(prep: &Prepared, ac: &AircraftConst, f: &Floor, m: f64) -> f64 {
+    let max_in = f.input.iter().map(|c| horner(c, m)).fold(0.0, f64::max);
+    let max_torque = f.torque.iter().map(|c| horner(c, m)).fold(0.0, f64::max);
     parts_from(
         ac,
         prep.model.mass_kg,
-        battery_j,
-        max_in * d(dk::INV_ETA_INV),
+        horner(&f.energy, m),
+        max_in * prep.pack.design[dk::INV_ETA_INV][0],
         max_torque,
     )
     .sum_kg
@@ -237,13 +272,14 @@ fn floor_sum(bound: &BoundGrid, prep: &Prepared, ac: &AircraftConst, f: &Floor, 
 /// the root, for the closure's first step.
 pub fn closure_start(bound: &BoundGrid, prep: &Prepared, ac: &AircraftConst, m0: f64) -> Start {
     let f = floor_of(bound, prep, ac.motors);
-    let g = |m: f64| floor_sum(bound, prep, ac, &f, m) - m;
-    // Fixed-point steps, accelerated by secant steps kept only where F_lb(m) ≥ m.
+    let g = |m: f64| floor_sum(prep, ac, &f, m) - m;
+    // Fixed-point steps, accelerated by secant steps kept only where F_lb(m) ≥ m (F_lb
+    // is convex: rising polynomials with their maxima and non-negative sums).
     let (mut m, mut gm) = (m0, g(m0));
     let mut prev: Option<(f64, f64)> = None;
     let ceiling = 3.0 * ac.mtom_kg;
     let mut slope = 0.0;
-    for _ in 0..40 {
+    for _ in 0..60 {
         if !(gm.is_finite() && gm > 0.0 && m < ceiling) {
             break;
         }
@@ -253,21 +289,18 @@ pub fn closure_start(bound: &BoundGrid, prep: &Prepared, ac: &AircraftConst, m0:
         {
             slope = 1.0 + (gm - ga) / (m - ma);
         }
-        if gm < 1e-3 {
+        if gm < START_TOLERANCE_KG {
             break;
         }
         let fixed = m + gm;
         let secant = prev
             .filter(|&(ma, ga)| ga > gm && m > ma)
-            .map(|(ma, ga)| m + gm * (m - ma) / (ga - gm));
-        let mut next = fixed;
-        let mut g_next = g(fixed);
-        if let Some(x) = secant.filter(|&x| x.is_finite() && x > fixed && x <= ceiling) {
-            let gx = g(x);
-            if gx >= 0.0 {
-                (next, g_next) = (x, gx);
-            }
-        }
+            .map(|(ma, ga)| m + gm * (m - ma) / (ga - gm))
+            .filter(|&x| x.is_finite() && x > fixed && x <= ceiling);
+        let (next, g_next) = match secant.map(|x| (x, g(x))) {
+            Some((x, gx)) if gx >= 0.0 => (x, gx),
+            _ => (fixed, g(fixed)),
+        };
         prev = Some((m, gm));
         (m, gm) = (next, g_next);
     }
@@ -283,6 +316,10 @@ pub fn closure_start(bound: &BoundGrid, prep: &Prepared, ac: &AircraftConst, m0:
     }
 }
 
+/// How close to the bound's own root the start is taken: far inside the gap between the
+/// bound and F (kilograms), so a looser search would not change the flights.
+const START_TOLERANCE_KG: f64 = 1e-3;
+
 /// See [`closure_start`].
 #[derive(Debug, Clone, Copy, PartialEq)]
 pub struct Start {
@@ -293,5 +330,5 @@ pub struct Start {
 /// F_lb at one mass (for tests: it must never exceed the sum of the parts flown).
 pub fn floor_parts_kg(bound: &BoundGrid, prep: &Prepared, ac: &AircraftConst, m: f64) -> f64 {
     let f = floor_of(bound, prep, ac.motors);
-    floor_sum(bound, prep, ac, &f, m)
+    floor_sum(prep, ac, &f, m)
 }

@@ -133,6 +133,7 @@ impl MissionGrid {
         let bound = BoundGrid::new(
             &segments,
             &oei_runs,
+            a.motor_count,
             a.airframe_mass_kg + a.payload_kg,
             a.max_takeoff_mass_kg,
         );
