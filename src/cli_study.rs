@@ -11,7 +11,7 @@ use clap::Args;
 use rand::{RngExt, SeedableRng, rngs::StdRng};
 
 use crate::cli_engine::{OutputFormat, load_study};
-use crate::engine::results::{CandidateResult, METRICS};
+use crate::engine::results::{CandidateResult, METRICS, MetricReader, metric_reader};
 use crate::engine::{robust, sweep};
 use crate::export::number::push_f64;
 
@@ -79,6 +79,13 @@ pub fn run_sweep(args: &SweepArgs) -> anyhow::Result<()> {
         .map(|(n, _)| *n)
         .filter(|n| !matches!(*n, "rank" | "trade_score"))
         .collect();
+    let columns: Vec<Column> = metrics
+        .iter()
+        .map(|m| match *m {
+            "mass_closure_converged" => Column::Converged,
+            _ => metric_reader(m).map_or(Column::Empty, Column::Metric),
+        })
+        .collect();
     let mut out = std::io::BufWriter::with_capacity(1 << 20, std::io::stdout().lock());
     let csv = matches!(args.format, OutputFormat::Csv);
     if csv {
@@ -97,23 +104,28 @@ pub fn run_sweep(args: &SweepArgs) -> anyhow::Result<()> {
     let mut first = true;
     std::thread::scope(|s| {
         let bar = s.spawn(|| progress("sweep", &done, sw.len(), &stop));
-        // Rows are formatted on the worker threads; this thread only writes them out.
+        // Rows are formatted on the worker threads, a group of designs into one buffer;
+        // this thread only writes them out. JSON rows after the first start with ",\n".
         sweep::run_mapped(
             &study,
             &sw,
             sweep::CHUNK,
             &done,
             &cancel,
-            |i, values, r| match csv {
-                true => csv_row(i, values, &r, &metrics),
-                false => json_row(i, values, &r, &names, &metrics).into_bytes(),
+            |text: &mut Vec<u8>, i, values, r| match csv {
+                true => csv_row(text, i, values, &r, &columns),
+                false => {
+                    if i > 0 {
+                        text.extend_from_slice(b",\n");
+                    }
+                    text.extend_from_slice(json_row(i, values, &r, &names, &metrics).as_bytes());
+                }
             },
-            |_, line| {
-                let res = if csv {
-                    out.write_all(&line)
+            |_, lines| {
+                let res = if csv || !first {
+                    out.write_all(&lines)
                 } else {
-                    out.write_all(if first { b"[\n" } else { b",\n" })
-                        .and_then(|_| out.write_all(&line))
+                    out.write_all(b"[\n").and_then(|_| out.write_all(&lines))
                 };
                 first = false;
                 if let Err(e) = res {
@@ -145,44 +157,53 @@ fn csv_line<'a>(fields: impl Iterator<Item = &'a [u8]>) -> Vec<u8> {
     w.into_inner().expect("in-memory CSV")
 }
 
-/// A sweep row as one CSV line: the design number, the varied values, the verdict, the
-/// binding check and the metrics. Numbers print in their shortest round-trip form
-/// ([`push_f64`]); an absent metric is an empty field. Only the binding check is text
-/// (it holds commas) and is quoted as [`csv_line`] would quote it.
-fn csv_row(i: usize, values: &[f64], r: &CandidateResult, metrics: &[&str]) -> Vec<u8> {
-    use std::fmt::Write as _;
-    let mut text = String::with_capacity(900);
+/// What a metric column of a sweep row shows.
+#[derive(Clone, Copy)]
+enum Column {
+    Metric(MetricReader),
+    Converged,
+    Empty,
+}
+
+/// A sweep row as one CSV line, appended to `text`: the design number, the varied values,
+/// the verdict, the binding check and the metrics. Numbers print in their shortest
+/// round-trip form ([`push_f64`]); an absent metric is an empty field. Only the binding
+/// check is text (it holds commas) and is quoted as [`csv_line`] would quote it.
+fn csv_row(text: &mut Vec<u8>, i: usize, values: &[f64], r: &CandidateResult, columns: &[Column]) {
+    use std::io::Write as _;
+    if text.is_empty() {
+        text.reserve(32 * 1024);
+    }
     let _ = write!(text, "{}", i + 1);
     for &v in values {
-        text.push(',');
-        push_f64(&mut text, v);
+        text.push(b',');
+        push_f64(text, v);
     }
-    text.push_str(if r.feasible { ",true," } else { ",false," });
+    text.extend_from_slice(if r.feasible { b",true," } else { b",false," });
     let binding = r.binding_constraint.as_deref().unwrap_or("");
     if binding.contains([',', '"', '\r', '\n']) {
-        text.push('"');
-        text.push_str(&binding.replace('"', "\"\""));
-        text.push('"');
+        text.push(b'"');
+        text.extend_from_slice(binding.replace('"', "\"\"").as_bytes());
+        text.push(b'"');
     } else {
-        text.push_str(binding);
+        text.extend_from_slice(binding.as_bytes());
     }
-    for m in metrics {
-        text.push(',');
-        match *m {
-            "mass_closure_converged" => text.push_str(match r.mass_closure_converged {
-                true => "true",
-                false => "false",
+    for c in columns {
+        text.push(b',');
+        match c {
+            Column::Converged => text.extend_from_slice(match r.mass_closure_converged {
+                true => b"true",
+                false => b"false",
             }),
-            "rank" => {}
-            _ => {
-                if let Some(v) = r.metric(m) {
-                    push_f64(&mut text, v);
+            Column::Metric(read) => {
+                if let Some(v) = read(r) {
+                    push_f64(text, v);
                 }
             }
+            Column::Empty => {}
         }
     }
-    text.push('\n');
-    text.into_bytes()
+    text.push(b'\n');
 }
 
 fn json_row(
