@@ -265,12 +265,17 @@ impl Sweep {
     /// Design `i` without the input checks: a design that cannot be built scores as
     /// infeasible with a geometry violation, so that every grid point has its row.
     pub fn raw_design(&self, base: &Candidate, i: usize) -> Candidate {
-        let mut c = base.clone();
+        let mut c = Candidate {
+            name: String::with_capacity(base.name.len() + 8),
+            drive: base.drive.clone(),
+            source: base.source.clone(),
+        };
         let (values, _) = self.values_fixed(i);
         for (axis, v) in self.axes.iter().zip(values) {
             apply(&mut c, axis.field, v);
         }
-        c.name = format!("{} #{}", base.name, i + 1);
+        use std::fmt::Write as _;
+        let _ = write!(c.name, "{} #{}", base.name, i + 1);
         c
     }
 }
