@@ -112,20 +112,22 @@ pub fn run_sweep(args: &SweepArgs) -> anyhow::Result<()> {
             sweep::CHUNK,
             &done,
             &cancel,
-            |text: &mut Vec<u8>, i, values, r| match csv {
-                true => csv_row(text, i, values, &r, &columns),
+            |lines: &mut Lines, i, values, r| match csv {
+                true => csv_row(lines, i, values, &r, &columns),
                 false => {
                     if i > 0 {
-                        text.extend_from_slice(b",\n");
+                        lines.text.extend_from_slice(b",\n");
                     }
-                    text.extend_from_slice(json_row(i, values, &r, &names, &metrics).as_bytes());
+                    let row = json_row(i, values, &r, &names, &metrics);
+                    lines.text.extend_from_slice(row.as_bytes());
                 }
             },
             |_, lines| {
                 let res = if csv || !first {
-                    out.write_all(&lines)
+                    out.write_all(&lines.text)
                 } else {
-                    out.write_all(b"[\n").and_then(|_| out.write_all(&lines))
+                    out.write_all(b"[\n")
+                        .and_then(|_| out.write_all(&lines.text))
                 };
                 first = false;
                 if let Err(e) = res {
@@ -165,20 +167,48 @@ enum Column {
     Empty,
 }
 
-/// A sweep row as one CSV line, appended to `text`: the design number, the varied values,
+/// The output lines of a group of designs, and where each number column's last text
+/// lies in them: neighbouring designs share many values (the slow axis, the base speed,
+/// the envelope length), and a value with the same bits as the one above it is copied
+/// rather than written anew.
+#[derive(Default)]
+struct Lines {
+    text: Vec<u8>,
+    /// Per column: the bits of its last value and that value's text range in `text`.
+    last: Vec<(u64, usize, usize)>,
+}
+
+impl Lines {
+    /// Appends `v` as the number of column `col`.
+    fn number(&mut self, col: usize, v: f64) {
+        let bits = v.to_bits();
+        let (last_bits, from, to) = self.last[col];
+        let at = self.text.len();
+        if last_bits == bits && to > from {
+            self.text.extend_from_within(from..to);
+        } else {
+            push_f64(&mut self.text, v);
+        }
+        self.last[col] = (bits, at, self.text.len());
+    }
+}
+
+/// A sweep row as one CSV line, appended to `lines`: the design number, the varied values,
 /// the verdict, the binding check and the metrics. Numbers print in their shortest
 /// round-trip form ([`push_f64`]); an absent metric is an empty field. Only the binding
 /// check is text (it holds commas) and is quoted as [`csv_line`] would quote it.
-fn csv_row(text: &mut Vec<u8>, i: usize, values: &[f64], r: &CandidateResult, columns: &[Column]) {
+fn csv_row(lines: &mut Lines, i: usize, values: &[f64], r: &CandidateResult, columns: &[Column]) {
     use std::io::Write as _;
-    if text.is_empty() {
-        text.reserve(32 * 1024);
+    if lines.text.is_empty() {
+        lines.text.reserve(32 * 1024);
+        lines.last = vec![(0, 0, 0); values.len() + columns.len()];
     }
-    let _ = write!(text, "{}", i + 1);
-    for &v in values {
-        text.push(b',');
-        push_f64(text, v);
+    let _ = write!(lines.text, "{}", i + 1);
+    for (k, &v) in values.iter().enumerate() {
+        lines.text.push(b',');
+        lines.number(k, v);
     }
+    let text = &mut lines.text;
     text.extend_from_slice(if r.feasible { b",true," } else { b",false," });
     let binding = r.binding_constraint.as_deref().unwrap_or("");
     if binding.contains([',', '"', '\r', '\n']) {
@@ -188,22 +218,24 @@ fn csv_row(text: &mut Vec<u8>, i: usize, values: &[f64], r: &CandidateResult, co
     } else {
         text.extend_from_slice(binding.as_bytes());
     }
-    for c in columns {
-        text.push(b',');
+    for (k, c) in columns.iter().enumerate() {
+        lines.text.push(b',');
         match c {
-            Column::Converged => text.extend_from_slice(match r.mass_closure_converged {
-                true => b"true",
-                false => b"false",
-            }),
+            Column::Converged => lines
+                .text
+                .extend_from_slice(match r.mass_closure_converged {
+                    true => b"true",
+                    false => b"false",
+                }),
             Column::Metric(read) => {
                 if let Some(v) = read(r) {
-                    push_f64(text, v);
+                    lines.number(values.len() + k, v);
                 }
             }
             Column::Empty => {}
         }
     }
-    text.push(b'\n');
+    lines.text.push(b'\n');
 }
 
 fn json_row(
