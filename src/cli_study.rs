@@ -11,7 +11,7 @@ use clap::Args;
 use rand::{RngExt, SeedableRng, rngs::StdRng};
 
 use crate::cli_engine::{OutputFormat, load_study};
-use crate::engine::results::{CandidateResult, METRICS};
+use crate::engine::results::{CandidateResult, METRICS, MetricReader, metric_reader};
 use crate::engine::{robust, sweep};
 use crate::export::number::push_f64;
 
@@ -79,6 +79,13 @@ pub fn run_sweep(args: &SweepArgs) -> anyhow::Result<()> {
         .map(|(n, _)| *n)
         .filter(|n| !matches!(*n, "rank" | "trade_score"))
         .collect();
+    let columns: Vec<Column> = metrics
+        .iter()
+        .map(|m| match *m {
+            "mass_closure_converged" => Column::Converged,
+            _ => metric_reader(m).map_or(Column::Empty, Column::Metric),
+        })
+        .collect();
     let mut out = std::io::BufWriter::with_capacity(1 << 20, std::io::stdout().lock());
     let csv = matches!(args.format, OutputFormat::Csv);
     if csv {
@@ -97,23 +104,30 @@ pub fn run_sweep(args: &SweepArgs) -> anyhow::Result<()> {
     let mut first = true;
     std::thread::scope(|s| {
         let bar = s.spawn(|| progress("sweep", &done, sw.len(), &stop));
-        // Rows are formatted on the worker threads; this thread only writes them out.
+        // Rows are formatted on the worker threads, a group of designs into one buffer;
+        // this thread only writes them out. JSON rows after the first start with ",\n".
         sweep::run_mapped(
             &study,
             &sw,
             sweep::CHUNK,
             &done,
             &cancel,
-            |i, values, r| match csv {
-                true => csv_row(i, values, &r, &metrics),
-                false => json_row(i, values, &r, &names, &metrics).into_bytes(),
+            |lines: &mut Lines, i, values, r| match csv {
+                true => csv_row(lines, i, values, &r, &columns),
+                false => {
+                    if i > 0 {
+                        lines.text.extend_from_slice(b",\n");
+                    }
+                    let row = json_row(i, values, &r, &names, &metrics);
+                    lines.text.extend_from_slice(row.as_bytes());
+                }
             },
-            |_, line| {
-                let res = if csv {
-                    out.write_all(&line)
+            |_, lines| {
+                let res = if csv || !first {
+                    out.write_all(&lines.text)
                 } else {
-                    out.write_all(if first { b"[\n" } else { b",\n" })
-                        .and_then(|_| out.write_all(&line))
+                    out.write_all(b"[\n")
+                        .and_then(|_| out.write_all(&lines.text))
                 };
                 first = false;
                 if let Err(e) = res {
@@ -145,44 +159,83 @@ fn csv_line<'a>(fields: impl Iterator<Item = &'a [u8]>) -> Vec<u8> {
     w.into_inner().expect("in-memory CSV")
 }
 
-/// A sweep row as one CSV line: the design number, the varied values, the verdict, the
-/// binding check and the metrics. Numbers print in their shortest round-trip form
-/// ([`push_f64`]); an absent metric is an empty field. Only the binding check is text
-/// (it holds commas) and is quoted as [`csv_line`] would quote it.
-fn csv_row(i: usize, values: &[f64], r: &CandidateResult, metrics: &[&str]) -> Vec<u8> {
-    use std::fmt::Write as _;
-    let mut text = String::with_capacity(900);
-    let _ = write!(text, "{}", i + 1);
-    for &v in values {
-        text.push(',');
-        push_f64(&mut text, v);
+/// What a metric column of a sweep row shows.
+#[derive(Clone, Copy)]
+enum Column {
+    Metric(MetricReader),
+    Converged,
+    Empty,
+}
+
+/// The output lines of a group of designs, and where each number column's last text
+/// lies in them: neighbouring designs share many values (the slow axis, the base speed,
+/// the envelope length), and a value with the same bits as the one above it is copied
+/// rather than written anew.
+#[derive(Default)]
+struct Lines {
+    text: Vec<u8>,
+    /// Per column: the bits of its last value and that value's text range in `text`.
+    last: Vec<(u64, usize, usize)>,
+}
+
+impl Lines {
+    /// Appends `v` as the number of column `col`.
+    fn number(&mut self, col: usize, v: f64) {
+        let bits = v.to_bits();
+        let (last_bits, from, to) = self.last[col];
+        let at = self.text.len();
+        if last_bits == bits && to > from {
+            self.text.extend_from_within(from..to);
+        } else {
+            push_f64(&mut self.text, v);
+        }
+        self.last[col] = (bits, at, self.text.len());
     }
-    text.push_str(if r.feasible { ",true," } else { ",false," });
+}
+
+/// A sweep row as one CSV line, appended to `lines`: the design number, the varied values,
+/// the verdict, the binding check and the metrics. Numbers print in their shortest
+/// round-trip form ([`push_f64`]); an absent metric is an empty field. Only the binding
+/// check is text (it holds commas) and is quoted as [`csv_line`] would quote it.
+fn csv_row(lines: &mut Lines, i: usize, values: &[f64], r: &CandidateResult, columns: &[Column]) {
+    use std::io::Write as _;
+    if lines.text.is_empty() {
+        lines.text.reserve(32 * 1024);
+        lines.last = vec![(0, 0, 0); values.len() + columns.len()];
+    }
+    let _ = write!(lines.text, "{}", i + 1);
+    for (k, &v) in values.iter().enumerate() {
+        lines.text.push(b',');
+        lines.number(k, v);
+    }
+    let text = &mut lines.text;
+    text.extend_from_slice(if r.feasible { b",true," } else { b",false," });
     let binding = r.binding_constraint.as_deref().unwrap_or("");
     if binding.contains([',', '"', '\r', '\n']) {
-        text.push('"');
-        text.push_str(&binding.replace('"', "\"\""));
-        text.push('"');
+        text.push(b'"');
+        text.extend_from_slice(binding.replace('"', "\"\"").as_bytes());
+        text.push(b'"');
     } else {
-        text.push_str(binding);
+        text.extend_from_slice(binding.as_bytes());
     }
-    for m in metrics {
-        text.push(',');
-        match *m {
-            "mass_closure_converged" => text.push_str(match r.mass_closure_converged {
-                true => "true",
-                false => "false",
-            }),
-            "rank" => {}
-            _ => {
-                if let Some(v) = r.metric(m) {
-                    push_f64(&mut text, v);
+    for (k, c) in columns.iter().enumerate() {
+        lines.text.push(b',');
+        match c {
+            Column::Converged => lines
+                .text
+                .extend_from_slice(match r.mass_closure_converged {
+                    true => b"true",
+                    false => b"false",
+                }),
+            Column::Metric(read) => {
+                if let Some(v) = read(r) {
+                    lines.number(values.len() + k, v);
                 }
             }
+            Column::Empty => {}
         }
     }
-    text.push('\n');
-    text.into_bytes()
+    lines.text.push(b'\n');
 }
 
 fn json_row(

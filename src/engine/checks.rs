@@ -22,6 +22,20 @@ pub const CHECKS: [&str; 11] = [
     "geometry",
 ];
 
+/// Indices into [`CHECKS`], for the outcomes made per row.
+mod ix {
+    pub const TORQUE: usize = 0;
+    pub const SPEED: usize = 1;
+    pub const WINDING_TEMPERATURE: usize = 2;
+    pub const MAGNET_TEMPERATURE: usize = 3;
+    pub const OVERLOAD_DURATION: usize = 4;
+    pub const ENVELOPE_DIAMETER: usize = 5;
+    pub const ENVELOPE_LENGTH: usize = 6;
+    pub const MASS_CLOSURE: usize = 7;
+    pub const MAX_TAKEOFF_MASS: usize = 8;
+    pub const ENERGY_MARGIN: usize = 9;
+}
+
 /// Checks that a larger motor eases (size-to-mission's first group, §9).
 pub fn eased_by_size(check: &str) -> bool {
     matches!(
@@ -87,7 +101,7 @@ fn where_(grid: &MissionGrid, seg: usize, oei: bool) -> String {
     }
 }
 
-/// Mission checks of one segment row.
+/// Mission checks of one segment row, in tie order.
 fn segment_outcomes(
     model: &MotorModel,
     seg: usize,
@@ -95,9 +109,9 @@ fn segment_outcomes(
     s: &SegStats,
     out: &mut Vec<Outcome>,
 ) {
-    let mut push = |check: &str, value: f64, limit: f64| {
+    let mut push = |check: usize, value: f64, limit: f64| {
         out.push(Outcome {
-            check: check_index(check),
+            check,
             segment: Some(seg),
             oei,
             value,
@@ -105,19 +119,19 @@ fn segment_outcomes(
             message: None,
         });
     };
-    push("torque", s.max_torque_nm, s.capability_nm);
+    push(ix::TORQUE, s.max_torque_nm, s.capability_nm);
     let to_rpm = 30.0 / std::f64::consts::PI;
-    push("speed", s.omega * to_rpm, model.max_speed_rad_s * to_rpm);
+    push(ix::SPEED, s.omega * to_rpm, model.max_speed_rad_s * to_rpm);
     push(
-        "winding_temperature",
+        ix::WINDING_TEMPERATURE,
         s.peak_winding_c,
         model.winding_limit_c,
     );
     if let Some(lim) = model.magnet_limit_c {
-        push("magnet_temperature", s.peak_stator_c, lim);
+        push(ix::MAGNET_TEMPERATURE, s.peak_stator_c, lim);
     }
     if let Some((_, permitted)) = model.overload {
-        push("overload_duration", s.max_overload_s, permitted);
+        push(ix::OVERLOAD_DURATION, s.max_overload_s, permitted);
     }
 }
 
@@ -175,16 +189,31 @@ pub fn outcomes(
     closure: &Closure,
     lim: &Limits,
 ) -> Vec<Outcome> {
-    let mut out = Vec::with_capacity(5 * (flight.nominal.len() + flight.oei.len()) + 4);
+    let mut out = Vec::new();
+    outcomes_into(model, flight, closure, lim, &mut out);
+    out
+}
+
+/// [`outcomes`] into `out` (cleared first), so that a caller scoring many designs reuses
+/// one buffer.
+pub fn outcomes_into(
+    model: &MotorModel,
+    flight: &Flight,
+    closure: &Closure,
+    lim: &Limits,
+    out: &mut Vec<Outcome>,
+) {
+    out.clear();
+    out.reserve(5 * (flight.nominal.len() + flight.oei.len()) + 4);
+    // Written in tie order (nominal rows by segment, then the candidate-level checks,
+    // then the OEI rows), so that only the OEI rows, whose runs may come in any segment
+    // order, need sorting: the same order as a stable sort of the whole.
     for (i, s) in flight.nominal.iter().enumerate() {
-        segment_outcomes(model, i, false, s, &mut out);
+        segment_outcomes(model, i, false, s, out);
     }
-    for (i, s) in &flight.oei {
-        segment_outcomes(model, *i, true, s, &mut out);
-    }
-    let mut push = |check: &str, value: f64, limit: f64| {
+    let mut push = |check: usize, value: f64, limit: f64| {
         out.push(Outcome {
-            check: check_index(check),
+            check,
             segment: None,
             oei: false,
             value,
@@ -193,21 +222,25 @@ pub fn outcomes(
         });
     };
     if let (Some(v), Some(l)) = (model.envelope_diameter_m, lim.max_diameter_m) {
-        push("envelope_diameter", v, l);
+        push(ix::ENVELOPE_DIAMETER, v, l);
     }
     if let (Some(v), Some(l)) = (model.envelope_length_m, lim.max_length_m) {
-        push("envelope_length", v, l);
+        push(ix::ENVELOPE_LENGTH, v, l);
     }
     if closure.converged {
-        push("max_takeoff_mass", closure.takeoff_mass_kg, lim.mtom_kg);
+        push(ix::MAX_TAKEOFF_MASS, closure.takeoff_mass_kg, lim.mtom_kg);
     } else {
-        push("mass_closure", closure.parts.sum_kg, lim.mtom_kg);
+        push(ix::MASS_CLOSURE, closure.parts.sum_kg, lim.mtom_kg);
     }
     if let Some(usable) = lim.usable_energy_j {
-        push("energy_margin", flight.battery_j / 3.6e6, usable / 3.6e6);
+        push(ix::ENERGY_MARGIN, flight.battery_j / 3.6e6, usable / 3.6e6);
     }
-    out.sort_by_key(|o| o.order());
-    out
+    let oei_from = out.len();
+    for (i, s) in &flight.oei {
+        segment_outcomes(model, *i, true, s, out);
+    }
+    debug_assert!(out[..oei_from].is_sorted_by_key(|o| o.order()));
+    out[oei_from..].sort_by_key(|o| o.order());
 }
 
 /// A geometry failure as an outcome (size-to-mission: a scale at which the motor cannot be built).
@@ -243,7 +276,7 @@ pub fn violations(outcomes: &[Outcome], grid: &MissionGrid) -> Vec<Violation> {
 pub fn binding(outcomes: &[Outcome], filter: impl Fn(&Outcome) -> bool) -> Option<&Outcome> {
     if let Some(o) = outcomes
         .iter()
-        .find(|o| o.name() == "mass_closure" && o.failed())
+        .find(|o| o.check == ix::MASS_CLOSURE && o.failed())
     {
         return Some(o);
     }
@@ -254,4 +287,28 @@ pub fn binding(outcomes: &[Outcome], filter: impl Fn(&Outcome) -> bool) -> Optio
         }
     }
     best
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn the_row_check_indices_name_their_checks() {
+        for (i, name) in [
+            (ix::TORQUE, "torque"),
+            (ix::SPEED, "speed"),
+            (ix::WINDING_TEMPERATURE, "winding_temperature"),
+            (ix::MAGNET_TEMPERATURE, "magnet_temperature"),
+            (ix::OVERLOAD_DURATION, "overload_duration"),
+            (ix::ENVELOPE_DIAMETER, "envelope_diameter"),
+            (ix::ENVELOPE_LENGTH, "envelope_length"),
+            (ix::MASS_CLOSURE, "mass_closure"),
+            (ix::MAX_TAKEOFF_MASS, "max_takeoff_mass"),
+            (ix::ENERGY_MARGIN, "energy_margin"),
+        ] {
+            assert_eq!(CHECKS[i], name);
+            assert_eq!(check_index(name), i);
+        }
+    }
 }

@@ -321,7 +321,7 @@ pub fn evaluate_frozen(
 pub fn evaluate_lean_group(ctx: &StudyContext, cands: &[Candidate]) -> Vec<CandidateResult> {
     const LANES: usize = GROUP;
     let mut out: Vec<Option<CandidateResult>> = vec![None; cands.len()];
-    let mut fixed: Vec<(usize, Evaluator, MotorModel)> = Vec::new();
+    let mut fixed: Vec<(usize, Evaluator, MotorModel)> = Vec::with_capacity(cands.len());
     for (i, cand) in cands.iter().enumerate() {
         let mut a = Assumptions::quiet();
         let ev = evaluator(ctx, cand, &mut a);
@@ -338,24 +338,26 @@ pub fn evaluate_lean_group(ctx: &StudyContext, cands: &[Candidate]) -> Vec<Candi
         }
     }
     let mut groups = fixed.chunks_exact(LANES);
+    // One set of flight and outcome buffers serves every lockstep group of the call.
+    let mut flights: [Flight; LANES] = std::array::from_fn(|_| Flight::sized_for(&ctx.grid));
+    let mut outcomes = Vec::new();
     for group in groups.by_ref() {
         let preps: [Prepared; LANES] =
             std::array::from_fn(|l| Prepared::new(&group[l].2, group[l].1.drive, &ctx.grid));
         let lanes = Group::new(preps.each_ref());
-        let mut flights: [Flight; LANES] = std::array::from_fn(|_| Flight::sized_for(&ctx.grid));
         let closures = closure::close_group(
             &ctx.grid,
             &lanes,
             std::array::from_fn(|l| &group[l].1.aircraft),
             &mut flights,
         );
-        for (l, flight) in flights.into_iter().enumerate() {
-            let (i, ev, model) = &group[l];
-            let outcomes = checks::outcomes(model, &flight, &closures[l], &ev.limits);
+        for (l, (i, ev, model)) in group.iter().enumerate() {
+            let flight = std::mem::take(&mut flights[l]);
+            checks::outcomes_into(model, &flight, &closures[l], &ev.limits, &mut outcomes);
             let run = Run {
                 closure: closures[l],
                 flight,
-                outcomes,
+                outcomes: std::mem::take(&mut outcomes),
             };
             out[*i] = Some(report::assemble(
                 ctx,
@@ -365,6 +367,7 @@ pub fn evaluate_lean_group(ctx: &StudyContext, cands: &[Candidate]) -> Vec<Candi
                 None,
                 Assumptions::quiet(),
             ));
+            (flights[l], outcomes) = (run.flight, run.outcomes);
         }
     }
     for (i, ev, model) in groups.remainder() {

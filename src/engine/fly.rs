@@ -136,14 +136,13 @@ pub struct TracePoint {
 impl<'a> Prepared<'a> {
     pub fn new(model: &'a MotorModel, drive: Drive, grid: &MissionGrid) -> Prepared<'a> {
         let windage = windage_geometry(model);
-        let segs: Vec<SegConst> = grid
+        let segs = grid
             .segments
             .iter()
-            .map(|g| seg_const(model, &drive, g, windage))
-            .collect();
+            .map(|g| seg_const(model, &drive, g, windage));
         let kernel = kernel(model);
-        let mut pack = Pack::<1>::empty(segs.len());
-        pack.set_lane(0, model, &drive, &kernel, &segs, grid);
+        let mut pack = Pack::<1>::empty(grid.segments.len());
+        pack.set_lane(0, model, &drive, &kernel, segs, grid);
         Prepared { model, drive, pack }
     }
 
@@ -364,7 +363,7 @@ impl<const L: usize> Pack<L> {
         model: &MotorModel,
         drive: &Drive,
         k: &Kernel,
-        segs: &[SegConst],
+        segs: impl IntoIterator<Item = SegConst>,
         grid: &MissionGrid,
     ) {
         let alpha = super::materials::CU_ALPHA_PER_K;

@@ -103,42 +103,51 @@ impl CandidateResult {
     /// The value of a result metric by name (the objective names of engine.md §10 and the
     /// other scalar metrics); `None` when the metric is null or unknown.
     pub fn metric(&self, name: &str) -> Option<f64> {
-        Some(match name {
-            "rated_torque_nm" => self.rated_torque_nm,
-            "peak_torque_nm" => self.peak_torque_nm,
-            "base_speed_rpm" => self.base_speed_rpm,
-            "max_speed_rpm" => self.max_speed_rpm,
-            "max_power_kw" => self.max_power_kw,
-            "motor_mass_kg" => self.motor_mass_kg,
-            "inverter_mass_kg" => self.inverter_mass_kg,
-            "gearbox_mass_kg" => self.gearbox_mass_kg,
-            "propulsion_mass_kg" => self.propulsion_mass_kg,
-            "battery_mass_kg" => self.battery_mass_kg,
-            "takeoff_mass_kg" => self.takeoff_mass_kg,
-            "closure_sum_of_parts_kg" => self.closure_sum_of_parts_kg,
-            "mission_energy_kwh" => self.mission_energy_kwh,
-            "reserve_energy_kwh" => self.reserve_energy_kwh,
-            "mission_motor_efficiency" => self.mission_motor_efficiency,
-            "cruise_motor_efficiency" => self.cruise_motor_efficiency?,
-            "mission_drive_efficiency" => self.mission_drive_efficiency,
-            "peak_winding_temp_c" => self.peak_winding_temp_c,
-            "peak_magnet_temp_c" => self.peak_magnet_temp_c?,
-            "winding_margin_k" => self.winding_margin_k,
-            "magnet_margin_k" => self.magnet_margin_k?,
-            "torque_margin" => self.torque_margin?,
-            "specific_power_kw_per_kg" => self.specific_power_kw_per_kg,
-            "peak_specific_power_kw_per_kg" => self.peak_specific_power_kw_per_kg,
-            "torque_density_nm_per_kg" => self.torque_density_nm_per_kg,
-            "rotor_inertia_kg_m2" => self.rotor_inertia_kg_m2?,
-            "peak_phase_current_a" => self.peak_phase_current_a?,
-            "envelope_diameter_m" => self.envelope_diameter_m?,
-            "envelope_length_m" => self.envelope_length_m?,
-            "energy_margin_kwh" => self.energy_margin_kwh?,
-            "energy_margin_pct" => self.energy_margin_pct?,
-            "trade_score" => self.trade_score?,
-            _ => return None,
-        })
+        metric_reader(name).and_then(|read| read(self))
     }
+}
+
+/// Reads one metric of a result.
+pub type MetricReader = fn(&CandidateResult) -> Option<f64>;
+
+/// The reader of a metric by name, as [`CandidateResult::metric`] reads it: looked up once
+/// for the columns of many rows. `None` for an unknown name.
+pub fn metric_reader(name: &str) -> Option<MetricReader> {
+    Some(match name {
+        "rated_torque_nm" => |r| Some(r.rated_torque_nm),
+        "peak_torque_nm" => |r| Some(r.peak_torque_nm),
+        "base_speed_rpm" => |r| Some(r.base_speed_rpm),
+        "max_speed_rpm" => |r| Some(r.max_speed_rpm),
+        "max_power_kw" => |r| Some(r.max_power_kw),
+        "motor_mass_kg" => |r| Some(r.motor_mass_kg),
+        "inverter_mass_kg" => |r| Some(r.inverter_mass_kg),
+        "gearbox_mass_kg" => |r| Some(r.gearbox_mass_kg),
+        "propulsion_mass_kg" => |r| Some(r.propulsion_mass_kg),
+        "battery_mass_kg" => |r| Some(r.battery_mass_kg),
+        "takeoff_mass_kg" => |r| Some(r.takeoff_mass_kg),
+        "closure_sum_of_parts_kg" => |r| Some(r.closure_sum_of_parts_kg),
+        "mission_energy_kwh" => |r| Some(r.mission_energy_kwh),
+        "reserve_energy_kwh" => |r| Some(r.reserve_energy_kwh),
+        "mission_motor_efficiency" => |r| Some(r.mission_motor_efficiency),
+        "cruise_motor_efficiency" => |r| r.cruise_motor_efficiency,
+        "mission_drive_efficiency" => |r| Some(r.mission_drive_efficiency),
+        "peak_winding_temp_c" => |r| Some(r.peak_winding_temp_c),
+        "peak_magnet_temp_c" => |r| r.peak_magnet_temp_c,
+        "winding_margin_k" => |r| Some(r.winding_margin_k),
+        "magnet_margin_k" => |r| r.magnet_margin_k,
+        "torque_margin" => |r| r.torque_margin,
+        "specific_power_kw_per_kg" => |r| Some(r.specific_power_kw_per_kg),
+        "peak_specific_power_kw_per_kg" => |r| Some(r.peak_specific_power_kw_per_kg),
+        "torque_density_nm_per_kg" => |r| Some(r.torque_density_nm_per_kg),
+        "rotor_inertia_kg_m2" => |r| r.rotor_inertia_kg_m2,
+        "peak_phase_current_a" => |r| r.peak_phase_current_a,
+        "envelope_diameter_m" => |r| r.envelope_diameter_m,
+        "envelope_length_m" => |r| r.envelope_length_m,
+        "energy_margin_kwh" => |r| r.energy_margin_kwh,
+        "energy_margin_pct" => |r| r.energy_margin_pct,
+        "trade_score" => |r| r.trade_score,
+        _ => return None,
+    })
 }
 
 /// Scalar metrics in the order exports list them, with their display units.

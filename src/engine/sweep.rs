@@ -239,13 +239,19 @@ impl Sweep {
     }
 
     /// The varied values of design `i` (grid order: the first axis varies slowest).
-    pub fn values(&self, mut i: usize) -> Vec<f64> {
-        let mut out = vec![0.0; self.axes.len()];
+    pub fn values(&self, i: usize) -> Vec<f64> {
+        let (values, n) = self.values_fixed(i);
+        values[..n].to_vec()
+    }
+
+    /// [`Sweep::values`] without allocating: the values in the first `n` places.
+    fn values_fixed(&self, mut i: usize) -> ([f64; 3], usize) {
+        let mut out = [0.0; 3];
         for (k, a) in self.axes.iter().enumerate().rev() {
             out[k] = a.values[i % a.values.len()];
             i /= a.values.len();
         }
-        out
+        (out, self.axes.len())
     }
 
     /// Design `i` as a candidate of its own (a varied size puts it in geometry mode),
@@ -259,11 +265,17 @@ impl Sweep {
     /// Design `i` without the input checks: a design that cannot be built scores as
     /// infeasible with a geometry violation, so that every grid point has its row.
     pub fn raw_design(&self, base: &Candidate, i: usize) -> Candidate {
-        let mut c = base.clone();
-        for (axis, v) in self.axes.iter().zip(self.values(i)) {
+        let mut c = Candidate {
+            name: String::with_capacity(base.name.len() + 8),
+            drive: base.drive.clone(),
+            source: base.source.clone(),
+        };
+        let (values, _) = self.values_fixed(i);
+        for (axis, v) in self.axes.iter().zip(values) {
             apply(&mut c, axis.field, v);
         }
-        c.name = format!("{} #{}", base.name, i + 1);
+        use std::fmt::Write as _;
+        let _ = write!(c.name, "{} #{}", base.name, i + 1);
         c
     }
 }
@@ -354,83 +366,92 @@ pub fn run_in_chunks(
         chunk,
         done,
         cancel,
-        |_, _, r| r,
-        |i, r| emit(i, &sweep.values(i), &r),
+        |rows: &mut Vec<CandidateResult>, _, _, r| rows.push(r),
+        |start, rows| {
+            for (k, r) in rows.into_iter().enumerate() {
+                emit(start + k, &sweep.values(start + k), &r);
+            }
+        },
     )
 }
 
-/// The sweep with a `map` of each design's row run on the worker threads beside the
-/// scoring (formatting an output line, say), and `emit` called on the caller's thread with
-/// the mapped rows in grid order.
-pub fn run_mapped<T: Send>(
+/// The sweep with each design's row folded by `map` into its group's `T` on the worker
+/// threads beside the scoring (formatting the group's output lines into one buffer, say),
+/// and `emit` called on the caller's thread with the groups in grid order, each with the
+/// index of its first design. A group is up to 32 consecutive designs of a chunk.
+pub fn run_mapped<T: Send + Default>(
     study: &Study,
     sweep: &Sweep,
     chunk: usize,
     done: &AtomicUsize,
     cancel: &AtomicBool,
-    map: impl Fn(usize, &[f64], CandidateResult) -> T + Sync,
+    map: impl Fn(&mut T, usize, &[f64], CandidateResult) + Sync,
     mut emit: impl FnMut(usize, T),
 ) -> usize {
     let chunk = chunk.max(1);
     let ctx = StudyContext::new(study);
     let base = &study.candidates[sweep.candidate_index];
     let n = sweep.len();
-    let score = |start: usize| -> Vec<Option<T>> {
+    // Per group: its first design, its number of designs and its rows (none when cancelled).
+    type Scored<T> = Vec<(usize, usize, Option<T>)>;
+    let score = |start: usize| -> Scored<T> {
         let end = (start + chunk).min(n);
         // Groups of designs: fixed-size designs in a group are flown in lockstep.
-        let indices: Vec<usize> = (start..end).collect();
-        indices
-            .par_chunks(GROUP)
-            .flat_map_iter(|group| {
+        let starts: Vec<usize> = (start..end).step_by(GROUP).collect();
+        starts
+            .par_iter()
+            .map(|&first| {
+                let group = first..(first + GROUP).min(end);
+                let len = group.len();
                 if cancel.load(Ordering::Relaxed) {
-                    return group.iter().map(|_| None).collect::<Vec<_>>();
+                    return (first, len, None);
                 }
                 let designs: Vec<Candidate> =
-                    group.iter().map(|&i| sweep.raw_design(base, i)).collect();
-                let scored: Vec<Option<T>> = evaluate_lean_group(&ctx, &designs)
-                    .into_iter()
-                    .zip(group)
-                    .map(|(r, &i)| Some(map(i, &sweep.values(i), r)))
-                    .collect();
-                done.fetch_add(group.len(), Ordering::Relaxed);
-                scored
+                    group.clone().map(|i| sweep.raw_design(base, i)).collect();
+                let mut rows = T::default();
+                for (r, i) in evaluate_lean_group(&ctx, &designs).into_iter().zip(group) {
+                    let (values, k) = sweep.values_fixed(i);
+                    map(&mut rows, i, &values[..k], r);
+                }
+                done.fetch_add(len, Ordering::Relaxed);
+                (first, len, Some(rows))
             })
             .collect()
     };
     let mut emitted = 0;
-    let mut hand_out = |start: usize, rows: Vec<Option<T>>| {
-        for (k, r) in rows.into_iter().enumerate() {
-            if let Some(r) = r {
-                emit(start + k, r);
-                emitted += 1;
+    let mut hand_out = |groups: Scored<T>| {
+        for (first, len, rows) in groups {
+            if let Some(rows) = rows {
+                emit(first, rows);
+                emitted += len;
             }
         }
     };
     // Chunk k + 1 is scored (on the worker threads, driven from a helper thread) while
     // chunk k's rows are handed out here, so the workers never wait for the output.
-    let mut pending: Option<(usize, Vec<Option<T>>)> = None;
+    let mut pending: Option<Scored<T>> = None;
     for start in (0..n).step_by(chunk) {
         if cancel.load(Ordering::Relaxed) {
             break;
         }
         let rows = std::thread::scope(|s| {
             let next = s.spawn(|| score(start));
-            if let Some((at, rows)) = pending.take() {
-                hand_out(at, rows);
+            if let Some(groups) = pending.take() {
+                hand_out(groups);
             }
             next.join()
         });
         match rows {
-            Ok(rows) => pending = Some((start, rows)),
+            Ok(rows) => pending = Some(rows),
             Err(panic) => std::panic::resume_unwind(panic),
         }
     }
     // Rows scored after a cancel are dropped: a chunk being handed out when the cancel
     // comes is finished, nothing after it is.
-    if let Some((at, rows)) = pending.take()
+    if let Some(groups) = pending.take()
         && !cancel.load(Ordering::Relaxed)
     {
-        hand_out(at, rows);
+        hand_out(groups);
     }
     emitted
 }

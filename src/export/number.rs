@@ -6,49 +6,69 @@
 //! standard library's choice: the value read back is the same.
 
 /// Appends `v` to `out` in the layout of `write!(out, "{v}")`.
-pub fn push_f64(out: &mut String, v: f64) {
+pub fn push_f64(out: &mut Vec<u8>, v: f64) {
     if !v.is_finite() {
-        out.push_str(if v.is_nan() {
-            "NaN"
+        out.extend_from_slice(if v.is_nan() {
+            b"NaN"
         } else if v > 0.0 {
-            "inf"
+            b"inf"
         } else {
-            "-inf"
+            b"-inf"
         });
         return;
     }
     let mut buf = zmij::Buffer::new();
-    let text = buf.format_finite(v);
-    if text.as_bytes().contains(&b'e') {
+    let text = buf.format_finite(v).as_bytes();
+    // An exponent ("e-7", "e+16", "e-308") sits in the last five bytes; digits hold no 'e'.
+    if text[text.len().saturating_sub(5)..].contains(&b'e') {
         layout(text, out);
     } else {
         // Plain already (1e-5 ≤ |v| < 1e16): only a whole number's ".0" goes.
-        out.push_str(text.strip_suffix(".0").unwrap_or(text));
+        out.extend_from_slice(text.strip_suffix(b".0").unwrap_or(text));
+    }
+}
+
+/// `t` before and after the first `at`, if any.
+fn split(t: &[u8], at: u8) -> (&[u8], Option<&[u8]>) {
+    match t.iter().position(|&c| c == at) {
+        Some(k) => (&t[..k], Some(&t[k + 1..])),
+        None => (t, None),
     }
 }
 
 /// Re-lays a shortest round-trip text in scientific or plain form (`-1.5e-7`, `2750.0`)
 /// as plain decimal without trailing zeros (`-0.00000015`, `2750`).
-fn layout(text: &str, out: &mut String) {
-    let (negative, body) = match text.strip_prefix('-') {
+fn layout(text: &[u8], out: &mut Vec<u8>) {
+    let (negative, body) = match text.strip_prefix(b"-") {
         Some(rest) => (true, rest),
         None => (false, text),
     };
-    let (mantissa, exp) = match body.split_once('e') {
-        Some((m, e)) => (m, e.trim_start_matches('+').parse::<i32>().unwrap_or(0)),
-        None => (body, 0),
+    let (mantissa, exp) = match split(body, b'e') {
+        (m, Some(e)) => (
+            m,
+            std::str::from_utf8(e)
+                .ok()
+                .and_then(|e| e.trim_start_matches('+').parse::<i32>().ok())
+                .unwrap_or(0),
+        ),
+        (m, None) => (m, 0),
     };
-    let (int, frac) = mantissa.split_once('.').unwrap_or((mantissa, ""));
+    let (int, frac) = split(mantissa, b'.');
+    let frac = frac.unwrap_or(b"");
     // All the digits (at most 17 significant, plus a few zeros), and where the decimal
     // point falls among them.
     let mut digits = [0u8; 64];
-    let all = int.bytes().chain(frac.bytes());
+    let all = int.iter().chain(frac);
     let mut n = 0;
-    for d in all {
+    for &d in all {
         if n == digits.len() {
             // Not a layout this function knows: let the standard library write it.
-            use std::fmt::Write as _;
-            let _ = write!(out, "{}", text.parse::<f64>().unwrap_or(f64::NAN));
+            use std::io::Write as _;
+            let v = std::str::from_utf8(text)
+                .ok()
+                .and_then(|t| t.parse::<f64>().ok())
+                .unwrap_or(f64::NAN);
+            let _ = write!(out, "{v}");
             return;
         }
         digits[n] = d;
@@ -62,23 +82,22 @@ fn layout(text: &str, out: &mut String) {
         sig = rest;
     }
     if negative {
-        out.push('-');
+        out.push(b'-');
     }
-    let push = |out: &mut String, d: &[u8]| d.iter().for_each(|&c| out.push(c as char));
     let n = sig.len() as i32;
     if n == 0 {
-        out.push('0');
+        out.push(b'0');
     } else if point <= 0 {
-        out.push_str("0.");
-        out.extend(std::iter::repeat_n('0', (-point) as usize));
-        push(out, sig);
+        out.extend_from_slice(b"0.");
+        out.extend(std::iter::repeat_n(b'0', (-point) as usize));
+        out.extend_from_slice(sig);
     } else if point >= n {
-        push(out, sig);
-        out.extend(std::iter::repeat_n('0', (point - n) as usize));
+        out.extend_from_slice(sig);
+        out.extend(std::iter::repeat_n(b'0', (point - n) as usize));
     } else {
-        push(out, &sig[..point as usize]);
-        out.push('.');
-        push(out, &sig[point as usize..]);
+        out.extend_from_slice(&sig[..point as usize]);
+        out.push(b'.');
+        out.extend_from_slice(&sig[point as usize..]);
     }
 }
 
@@ -90,8 +109,9 @@ mod tests {
     /// The text parses back to the same number, with as many significant digits as the
     /// standard library writes and in its layout (sign, no exponent, no trailing ".0").
     fn same_as_display(v: f64) {
-        let mut s = String::new();
+        let mut s = Vec::new();
         push_f64(&mut s, v);
+        let s = String::from_utf8(s).expect("ASCII");
         let std = format!("{v}");
         let bits = v.to_bits();
         if v.is_nan() {
