@@ -381,7 +381,7 @@ pub fn close_group(
             };
             lanes[l] = Lane::Done(finished);
             if pending(&lanes) {
-                finals[l] = Some(flights[l].clone());
+                finals[l] = Some(std::mem::take(&mut flights[l]));
             }
         }
     }

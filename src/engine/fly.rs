@@ -194,8 +194,8 @@ pub enum Detail {
     Full,
     /// Only what the mass closure reads — the battery energy and the peak electrical
     /// power and propeller torque, with the thermal state they depend on — computed by the
-    /// very same operations as in a full flight; the peaks of temperature, current and
-    /// overload, and the idle-floor flag, are left as NaN / false.
+    /// very same operations as in a full flight; no segment rows (`nominal` and `oei`
+    /// stay empty), no peaks of temperature, current or overload.
     Closure,
 }
 
@@ -465,7 +465,9 @@ fn fly_kernel<V: Vf, const K: usize, const L: usize, const FULL: bool>(
         for (out, s) in outs.iter_mut().zip(stats) {
             out.battery_j += s.battery_j;
             out.prop_j += s.prop_j;
-            out.nominal.push(s);
+            if FULL {
+                out.nominal.push(s);
+            }
         }
     }
     for &(a, b) in &grid.oei_runs {
@@ -484,8 +486,10 @@ fn fly_kernel<V: Vf, const K: usize, const L: usize, const FULL: bool>(
                 &mut t,
                 &mut trace,
             );
-            for (out, s) in outs.iter_mut().zip(stats) {
-                out.oei.push((i, s));
+            if FULL {
+                for (out, s) in outs.iter_mut().zip(stats) {
+                    out.oei.push((i, s));
+                }
             }
         }
     }
