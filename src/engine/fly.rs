@@ -136,10 +136,19 @@ pub struct TracePoint {
 impl<'a> Prepared<'a> {
     pub fn new(model: &'a MotorModel, drive: Drive, grid: &MissionGrid) -> Prepared<'a> {
         let windage = windage_geometry(model);
-        let segs = grid
-            .segments
-            .iter()
-            .map(|g| seg_const(model, &drive, g, windage));
+        // Segments with the same step length share their thermal propagator.
+        let mut props: Vec<(f64, [[f64; 2]; 2])> = Vec::new();
+        let segs = grid.segments.iter().map(|g| {
+            let prop = match props.iter().find(|(dt, _)| *dt == g.dt_s) {
+                Some(&(_, m)) => m,
+                None => {
+                    let m = propagator(model, g.dt_s);
+                    props.push((g.dt_s, m));
+                    m
+                }
+            };
+            seg_const(model, &drive, g, windage, prop)
+        });
         let kernel = kernel(model);
         let mut pack = Pack::<1>::empty(grid.segments.len());
         pack.set_lane(0, model, &drive, &kernel, segs, grid);
@@ -210,11 +219,15 @@ pub struct Group<'a> {
 
 impl<'a> Group<'a> {
     pub fn new(preps: [&'a Prepared<'a>; GROUP]) -> Group<'a> {
-        let mut pack = Pack::<GROUP>::empty(preps[0].pack.segs.len());
-        for (l, p) in preps.iter().enumerate() {
-            pack.copy_lane(l, &p.pack);
+        // Written lane by lane in one pass (no zeroed buffer first).
+        let segs = (0..preps[0].pack.segs.len())
+            .map(|i| std::array::from_fn(|k| std::array::from_fn(|l| preps[l].pack.segs[i][k][0])))
+            .collect();
+        let design = std::array::from_fn(|k| std::array::from_fn(|l| preps[l].pack.design[k][0]));
+        Group {
+            preps,
+            pack: Pack { design, segs },
         }
-        Group { preps, pack }
     }
 
     pub fn prepared(&self, l: usize) -> &'a Prepared<'a> {
@@ -343,17 +356,6 @@ impl<const L: usize> Pack<L> {
         Pack {
             design: [[0.0; L]; dk::COUNT],
             segs: vec![[[0.0; L]; sk::COUNT]; segments],
-        }
-    }
-
-    fn copy_lane(&mut self, l: usize, one: &Pack<1>) {
-        for (d, s) in self.design.iter_mut().zip(&one.design) {
-            d[l] = s[0];
-        }
-        for (seg, one) in self.segs.iter_mut().zip(&one.segs) {
-            for (d, s) in seg.iter_mut().zip(one) {
-                d[l] = s[0];
-            }
         }
     }
 
@@ -701,7 +703,25 @@ fn windage_geometry(model: &MotorModel) -> f64 {
     }
 }
 
-fn seg_const(model: &MotorModel, drive: &Drive, g: &SegmentGrid, windage: f64) -> SegConst {
+/// The step propagator of a model's thermal state (for one node: its decay on both rows,
+/// so that the stator reading follows the winding).
+fn propagator(model: &MotorModel, dt_s: f64) -> [[f64; 2]; 2] {
+    match &model.thermal {
+        ThermalModel::TwoNode(net) => net.propagator(dt_s).m,
+        ThermalModel::OneNode(node) => {
+            let d = node.decay(dt_s);
+            [[d, 0.0], [d, 0.0]]
+        }
+    }
+}
+
+fn seg_const(
+    model: &MotorModel,
+    drive: &Drive,
+    g: &SegmentGrid,
+    windage: f64,
+    prop: [[f64; 2]; 2],
+) -> SegConst {
     let omega = g.prop_omega * drive.gear_ratio;
     let overload_nm = match model.overload {
         Some((p_cont, _)) => model.rated_torque_nm.min(p_cont / omega),
@@ -713,7 +733,12 @@ fn seg_const(model: &MotorModel, drive: &Drive, g: &SegmentGrid, windage: f64) -
         }
         LossModel::Sized(s) => {
             let f = s.pole_pairs * omega / (2.0 * std::f64::consts::PI);
-            let wind = omega.powf(2.8) * windage;
+            // Direct drive turns at the propeller's speed, whose ω^2.8 the grid holds.
+            let omega_28 = match drive.gear_ratio == 1.0 {
+                true => g.prop_omega_pow_2_8,
+                false => omega.powf(2.8),
+            };
+            let wind = omega_28 * windage;
             let emf = s.e_rms_base_v * omega.min(model.base_speed_rad_s) / model.base_speed_rad_s;
             let per_w = if model.current == CurrentModel::BackEmf {
                 1.0 / (3.0 * emf)
@@ -726,13 +751,6 @@ fn seg_const(model: &MotorModel, drive: &Drive, g: &SegmentGrid, windage: f64) -
                 wind,
                 per_w,
             )
-        }
-    };
-    let prop = match &model.thermal {
-        ThermalModel::TwoNode(net) => net.propagator(g.dt_s).m,
-        ThermalModel::OneNode(node) => {
-            let d = node.decay(g.dt_s);
-            [[d, 0.0], [d, 0.0]]
         }
     };
     SegConst {

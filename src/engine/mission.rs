@@ -34,6 +34,8 @@ pub struct SegmentGrid {
     pub dt_s: f64,
     /// Propeller shaft speed, rad/s.
     pub prop_omega: f64,
+    /// prop_omega^2.8, the windage law's speed factor at direct drive.
+    pub prop_omega_pow_2_8: f64,
     pub floor_w: f64,
     pub steady: bool,
     pub steps: Vec<StepPoint>,
@@ -104,6 +106,7 @@ impl MissionGrid {
                 let dt = t / n as f64;
                 let (h0, h1) = (seg.altitude_start(), seg.altitude_end());
                 let oei_inc = seg.oei_cd0_increment.unwrap_or(0.002);
+                let prop_omega = seg.prop_speed_rpm * std::f64::consts::PI / 30.0;
                 let steps: Vec<StepPoint> = (0..n)
                     .map(|k| {
                         let h = h0 + (k as f64 + 0.5) / n as f64 * (h1 - h0);
@@ -117,7 +120,8 @@ impl MissionGrid {
                     oei: seg.is_oei(),
                     duration_s: t,
                     dt_s: dt,
-                    prop_omega: seg.prop_speed_rpm * std::f64::consts::PI / 30.0,
+                    prop_omega,
+                    prop_omega_pow_2_8: prop_omega.powf(2.8),
                     floor_w: seg.idle_floor_kw.unwrap_or(0.0) * 1000.0,
                     steady: matches!(seg.power, PowerRule::Steady { .. }),
                     steps,
