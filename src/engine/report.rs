@@ -86,17 +86,22 @@ pub fn assemble(
         .filter(|s| s.max_torque_nm > 0.0)
         .map(|s| s.capability_nm / s.max_torque_nm)
         .reduce(f64::min);
-    let sum = |pred: &dyn Fn(usize) -> bool, pick: &dyn Fn(&SegStats) -> f64| -> f64 {
-        f.nominal
-            .iter()
-            .enumerate()
-            .filter(|(i, _)| pred(*i))
-            .map(|(_, s)| pick(s))
-            .sum()
-    };
-    let is_kind = |k: SegmentKind| move |i: usize| ctx.grid.segments[i].kind == k;
-    let everything = |_: usize| true;
-    let cruise_in = sum(&is_kind(SegmentKind::Cruise), &|s| s.input_j);
+    // The segment sums in one pass, each added in segment order from −0.0 as `Iterator::sum`
+    // would add it.
+    let (mut cruise_in, mut cruise_shaft, mut reserve_j, mut shaft_j, mut input_j) =
+        (-0.0, -0.0, -0.0, -0.0, -0.0);
+    for (g, s) in ctx.grid.segments.iter().zip(&f.nominal) {
+        match g.kind {
+            SegmentKind::Cruise => {
+                cruise_in += s.input_j;
+                cruise_shaft += s.shaft_j;
+            }
+            SegmentKind::Reserve => reserve_j += s.battery_j,
+            _ => {}
+        }
+        shaft_j += s.shaft_j;
+        input_j += s.input_j;
+    }
     let peak_winding = f
         .nominal
         .iter()
@@ -133,13 +138,13 @@ pub fn assemble(
         takeoff_mass_kg: c.takeoff_mass_kg,
         closure_sum_of_parts_kg: c.parts.sum_kg,
         mission_energy_kwh: need_kwh,
-        reserve_energy_kwh: sum(&is_kind(SegmentKind::Reserve), &|s| s.battery_j) / 3.6e6,
+        reserve_energy_kwh: reserve_j / 3.6e6,
         mission_motor_efficiency: ratio(
-            sum(&everything, &|s| s.shaft_j),
-            sum(&everything, &|s| s.input_j),
+            shaft_j,
+            input_j,
         ),
         cruise_motor_efficiency: (cruise_in > 0.0)
-            .then(|| sum(&is_kind(SegmentKind::Cruise), &|s| s.shaft_j) / cruise_in),
+            .then(|| cruise_shaft / cruise_in),
         mission_drive_efficiency: ratio(f.prop_j, f.battery_j),
         peak_winding_temp_c: peak_winding,
         peak_magnet_temp_c: magnet_peak,
