@@ -3,6 +3,11 @@
 use clap::Parser;
 use shaftline::cli::{self, Cli, Commands};
 
+// The engine's sweeps allocate and free small result rows at a high rate on every core;
+// this allocator's per-thread free lists serve that much faster than the system one.
+#[global_allocator]
+static ALLOCATOR: mimalloc::MiMalloc = mimalloc::MiMalloc;
+
 #[tokio::main]
 async fn main() -> anyhow::Result<()> {
     let cli = Cli::parse();

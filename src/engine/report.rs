@@ -139,12 +139,8 @@ pub fn assemble(
         closure_sum_of_parts_kg: c.parts.sum_kg,
         mission_energy_kwh: need_kwh,
         reserve_energy_kwh: reserve_j / 3.6e6,
-        mission_motor_efficiency: ratio(
-            shaft_j,
-            input_j,
-        ),
-        cruise_motor_efficiency: (cruise_in > 0.0)
-            .then(|| cruise_shaft / cruise_in),
+        mission_motor_efficiency: ratio(shaft_j, input_j),
+        cruise_motor_efficiency: (cruise_in > 0.0).then(|| cruise_shaft / cruise_in),
         mission_drive_efficiency: ratio(f.prop_j, f.battery_j),
         peak_winding_temp_c: peak_winding,
         peak_magnet_temp_c: magnet_peak,
