@@ -11,7 +11,7 @@
 //! peaks bounded from below. The fixed-point iterates of F_lb from m₀ then stay below
 //! those of F (x'_lb = F_lb(x_lb) ≤ F_lb(x) ≤ F(x) = x'), so the root of F_lb is below the
 //! smallest root of F: the closure may start there, a few kilograms short of the root
-//! instead of a few hundred, and close in three flights instead of four.
+//! instead of a few hundred, and close in two or three flights instead of four.
 
 use super::closure::{AircraftConst, parts_from};
 use super::fly::{Prepared, dk, sk};
