@@ -136,16 +136,6 @@ pub struct Closer {
     last_likely: bool,
 }
 
-/// How the closure's next mass was found.
-#[derive(Debug, Clone, Copy, PartialEq)]
-enum Kind {
-    /// Fixed-point or secant step.
-    Plain,
-    Quadratic,
-    /// The first step, along the bound's slope.
-    Hint,
-}
-
 /// A step this small (or a quadratic one) usually lands within the tolerance: the flight
 /// after it is flown in full detail, the ones before only for the closure.
 const FINAL_APPROACH_KG: f64 = 5.0;
@@ -195,19 +185,15 @@ impl Closer {
     /// Takes the flight at the mass last asked for and says what comes next.
     pub fn after(&mut self, flight: &Flight) -> Next {
         let flown = self.m;
-        let (next, kind) = self.step(flight);
+        let (next, quadratic) = self.step(flight);
         if let Next::Fly(m) = next {
-            self.last_likely = self.at_mtom
-                || match kind {
-                    Kind::Quadratic => true,
-                    Kind::Plain | Kind::Hint => (m - flown).abs() < FINAL_APPROACH_KG,
-                };
+            self.last_likely = self.at_mtom || quadratic || (m - flown).abs() < FINAL_APPROACH_KG;
         }
         next
     }
 
-    /// The iteration proper; also says what kind of step gave the next mass.
-    fn step(&mut self, flight: &Flight) -> (Next, Kind) {
+    /// The iteration proper; also says whether the next mass came from a quadratic step.
+    fn step(&mut self, flight: &Flight) -> (Next, bool) {
         let ac = &self.ac;
         let p = parts(ac, self.motor_kg, flight);
         if self.at_mtom {
@@ -217,14 +203,14 @@ impl Closer {
                 parts: p,
                 iterations: self.evals,
             };
-            return (Next::Done(done), Kind::Plain);
+            return (Next::Done(done), false);
         }
         self.evals += 1;
         let (m, g) = (self.m, p.sum_kg - self.m);
         let ceiling = 3.0 * ac.mtom_kg;
         if !p.sum_kg.is_finite() || p.sum_kg > ceiling || self.evals >= MAX_ITERATIONS {
             self.at_mtom = true;
-            return (Next::Fly(ac.mtom_kg), Kind::Plain);
+            return (Next::Fly(ac.mtom_kg), false);
         }
         if g.abs() < TOLERANCE_KG {
             let done = Closure {
@@ -233,46 +219,41 @@ impl Closer {
                 parts: p,
                 iterations: self.evals,
             };
-            return (Next::Done(done), Kind::Plain);
+            return (Next::Done(done), false);
         }
         if g < 0.0 && self.prev[1].is_none() && m != self.m0 {
             // Above the root with no point below it (the start was not below the root,
             // which the bound rules out): start over from m₀.
             self.slope = None;
             self.m = self.m0;
-            return (Next::Fly(self.m), Kind::Plain);
+            return (Next::Fly(self.m), false);
         }
         if g < 0.0 {
             // A secant step went past the root: step back to the last point below it.
             let (m0, g0) = self.prev[1].unwrap_or((m, 0.0));
             self.prev = [None; 2];
             self.m = m0 + g0;
-            return (Next::Fly(self.m), Kind::Plain);
+            return (Next::Fly(self.m), false);
         }
         // The fixed-point step F(m), or an accelerated step beyond it that stays finite
         // and below the ceiling (one past the root is caught by the next flight, g < 0).
         // From the first point, the step along the bound's slope (F_lb' a little under F'
-        // near the root, so it stays short of the root, see [`bound`]); it is not likely
-        // the last: the secant after it is.
+        // near the root, so it stays short of the root, see [`bound`]).
         let hint = match (self.slope.take(), self.prev[1]) {
             (Some(s), None) => Some(m + g / (1.0 - s)),
             _ => None,
         };
         let [quadratic, secant] = accelerated(self.prev, (m, g));
-        let (next, kind) = [
-            (quadratic, Kind::Quadratic),
-            (secant, Kind::Plain),
-            (hint, Kind::Hint),
-        ]
-        .into_iter()
-        .find_map(|(x, kind)| {
-            x.filter(|&x| x.is_finite() && x > p.sum_kg && x <= ceiling)
-                .map(|x| (x, kind))
-        })
-        .unwrap_or((p.sum_kg, Kind::Plain));
+        let (next, is_quadratic) = [(quadratic, true), (secant, false), (hint, false)]
+            .into_iter()
+            .find_map(|(x, q)| {
+                x.filter(|&x| x.is_finite() && x > p.sum_kg && x <= ceiling)
+                    .map(|x| (x, q))
+            })
+            .unwrap_or((p.sum_kg, false));
         self.prev = [self.prev[1], Some((m, g))];
         self.m = next;
-        (Next::Fly(next), kind)
+        (Next::Fly(next), is_quadratic)
     }
 }
 
